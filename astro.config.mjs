@@ -1,0 +1,19 @@
+// @ts-check
+import { defineConfig } from 'astro/config';
+import node from '@astrojs/node';
+import react from '@astrojs/react';
+import tailwindcss from '@tailwindcss/vite';
+
+export default defineConfig({
+  output: 'server',
+  adapter: node({ mode: 'standalone' }),
+  integrations: [react()],
+  security: { checkOrigin: true },
+  server: { host: '127.0.0.1', port: 4321 },
+  vite: {
+    plugins: [tailwindcss()],
+    worker: { format: 'es' },
+    optimizeDeps: { exclude: ['replicad-opencascadejs'] },
+    resolve: { alias: { '~': new URL('./src', import.meta.url).pathname } },
+  },
+});

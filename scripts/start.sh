@@ -1,0 +1,21 @@
+#!/usr/bin/env bash
+# npm start: install what is missing, start the private MariaDB, migrate, seed the demo, build, serve.
+source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
+cd "$ROOT"
+started=$(date +%s)
+
+bash scripts/prepare.sh
+bash scripts/db.sh start
+export DB_PORT="${DB_PORT:-3406}"
+npx tsx scripts/migrate.ts
+npx tsx scripts/seed.ts
+ensure_build
+
+export HOST="${HOST:-127.0.0.1}"
+export PORT="${PORT:-4321}"
+say "ready in $(( $(date +%s) - started )) s — serving on http://$HOST:$PORT"
+if [ "${NODE_ENV:-}" != "production" ] || [ -n "${SEED_DEMO:-}" ]; then
+  say "demo sign-ins (demo only): designer@ / engineer@ / machinist@ / admin@example.test, password: ${DEMO_PASSWORD:-platewright-demo}"
+fi
+say "stop with Ctrl-C; the database keeps running (npm run db:stop stops it)"
+exec node dist/server/entry.mjs

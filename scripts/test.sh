@@ -1,0 +1,57 @@
+#!/usr/bin/env bash
+# npm test: the same preparation as npm start (browser included) against a separate test database
+# instance (own folder and port), then unit, integration and end-to-end tests. Stops what it started.
+source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
+cd "$ROOT"
+started=$(date +%s)
+
+export DB_PORT="${TEST_DB_PORT:-3407}"
+export DB_DIR="${TEST_DB_DIR:-$ROOT/.data/test-mariadb}"
+export DB_NAME="${TEST_DB_NAME:-platewright_test}"
+export DB_USER=platewright DB_PASSWORD=platewright-test
+export TEST_APP_PORT="${TEST_APP_PORT:-4327}"
+export NODE_ENV=test
+unset DATABASE_URL
+
+bash scripts/prepare.sh --with-browser
+
+db_was_running=0
+bash scripts/db.sh status >/dev/null 2>&1 && db_was_running=1
+cleanup() {
+  if [ "$db_was_running" = 0 ]; then bash scripts/db.sh stop >/dev/null 2>&1 || true; fi
+}
+trap cleanup EXIT
+
+bash scripts/db.sh start
+# A fresh test database every run; the demo instance is never touched.
+mariadb --no-defaults --socket="$DB_DIR/mysqld.sock" -uroot -e "DROP DATABASE IF EXISTS \`$DB_NAME\`"
+bash scripts/db.sh start >/dev/null
+npx tsx scripts/migrate.ts
+ensure_build
+
+mkdir -p .test-artifacts
+status=0
+summary=()
+run_suite() {
+  local name="$1" config="$2"
+  say "running $name tests"
+  local out=".test-artifacts/$name-results.json"
+  rm -f "$out"
+  if npx vitest run --config "$config" --reporter=default --reporter=json --outputFile.json="$out"; then :; else status=1; fi
+  if [ -f "$out" ]; then
+    summary+=("$name: $(node -e 'const r=require(process.argv[1]);console.log(`${r.numPassedTests} passed, ${r.numFailedTests} failed`)' "$ROOT/$out")")
+  else
+    summary+=("$name: did not run"); status=1
+  fi
+}
+run_suite unit vitest.config.ts
+run_suite integration vitest.integration.config.ts
+run_suite e2e vitest.e2e.config.ts
+
+say "finished in $(( $(date +%s) - started )) s"
+for s in "${summary[@]}"; do say "$s"; done
+node -e '
+  const fs=require("fs");let p=0,f=0;
+  for (const n of ["unit","integration","e2e"]) { try { const r=JSON.parse(fs.readFileSync(`.test-artifacts/${n}-results.json`,"utf8")); p+=r.numPassedTests; f+=r.numFailedTests; } catch {} }
+  console.log(`${p} passed, ${f} failed`);'
+exit $status

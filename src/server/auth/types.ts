@@ -1,0 +1,13 @@
+import type { Role } from '../db/schema';
+
+export interface SessionUser {
+  id: string;
+  email: string;
+  name: string;
+  role: Role;
+}
+
+export interface SessionInfo {
+  id: string;
+  expiresAt: Date;
+}

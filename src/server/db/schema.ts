@@ -1,0 +1,209 @@
+import {
+  bigint,
+  boolean,
+  char,
+  datetime,
+  index,
+  int,
+  mysqlEnum,
+  mysqlTable,
+  primaryKey,
+  text,
+  uniqueIndex,
+  varchar,
+} from 'drizzle-orm/mysql-core';
+import { sql } from 'drizzle-orm';
+import { jsonDoc, longblob } from './columns';
+
+export const ROLES = ['designer', 'engineer', 'machinist', 'admin'] as const;
+export type Role = (typeof ROLES)[number];
+
+export const REVISION_STATUSES = ['draft', 'in_review', 'approved', 'changes_requested', 'superseded'] as const;
+export type RevisionStatus = (typeof REVISION_STATUSES)[number];
+
+export const REVIEW_DECISIONS = ['submitted', 'approved', 'changes_requested', 'comment'] as const;
+export type ReviewDecision = (typeof REVIEW_DECISIONS)[number];
+
+const createdAt = () => datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`);
+
+// Surrogate keys are BIGINT UNSIGNED AUTO_INCREMENT (MariaDB rejects drizzle's `serial AUTO_INCREMENT`).
+const pk = () => bigint('id', { mode: 'number', unsigned: true }).autoincrement().primaryKey();
+const idRef = (name: string) => bigint(name, { mode: 'number', unsigned: true });
+
+export const users = mysqlTable(
+  'users',
+  {
+    id: varchar('id', { length: 40 }).primaryKey(),
+    email: varchar('email', { length: 254 }).notNull(),
+    name: varchar('name', { length: 200 }).notNull(),
+    role: mysqlEnum('role', ROLES).notNull(),
+    active: boolean('active').notNull().default(true),
+    passwordHash: varchar('password_hash', { length: 255 }),
+    createdAt: createdAt(),
+    lastSignInAt: datetime('last_sign_in_at', { mode: 'date', fsp: 3 }),
+  },
+  (t) => [uniqueIndex('users_email_uq').on(t.email)],
+);
+
+/** Sessions: the shape the session library's MySQL adapter expects (id, user_id, expires_at). */
+export const sessions = mysqlTable(
+  'sessions',
+  {
+    id: varchar('id', { length: 255 }).primaryKey(),
+    userId: varchar('user_id', { length: 40 })
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    expiresAt: datetime('expires_at', { mode: 'date' }).notNull(),
+  },
+  (t) => [index('sessions_user_idx').on(t.userId)],
+);
+
+export const projects = mysqlTable(
+  'projects',
+  {
+    id: pk(),
+    name: varchar('name', { length: 200 }).notNull(),
+    swapDescription: text('swap_description').notNull(),
+    ownerId: varchar('owner_id', { length: 40 })
+      .notNull()
+      .references(() => users.id),
+    createdAt: createdAt(),
+    updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [index('projects_owner_idx').on(t.ownerId)],
+);
+
+export const projectMembers = mysqlTable(
+  'project_members',
+  {
+    projectId: idRef('project_id')
+      .notNull()
+      .references(() => projects.id, { onDelete: 'cascade' }),
+    userId: varchar('user_id', { length: 40 })
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    addedAt: createdAt(),
+  },
+  (t) => [primaryKey({ columns: [t.projectId, t.userId] }), index('project_members_user_idx').on(t.userId)],
+);
+
+export const plates = mysqlTable(
+  'plates',
+  {
+    id: pk(),
+    projectId: idRef('project_id')
+      .notNull()
+      .references(() => projects.id),
+    /** part number, unique in the shop (hence also within its project), e.g. PW-0042 */
+    partNumber: varchar('part_number', { length: 32 }).notNull(),
+    title: varchar('title', { length: 200 }).notNull(),
+    material: varchar('material', { length: 80 }).notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex('plates_part_number_uq').on(t.partNumber), index('plates_project_idx').on(t.projectId)],
+);
+
+export const revisions = mysqlTable(
+  'revisions',
+  {
+    id: pk(),
+    plateId: idRef('plate_id')
+      .notNull()
+      .references(() => plates.id),
+    /** 1, 2, 3 … per plate */
+    number: int('number', { unsigned: true }).notNull(),
+    parentRevisionId: idRef('parent_revision_id'),
+    status: mysqlEnum('status', REVISION_STATUSES).notNull().default('draft'),
+    spec: jsonDoc<unknown>('spec').notNull(),
+    specSha256: char('spec_sha256', { length: 64 }).notNull(),
+    specSchemaVersion: int('spec_schema_version', { unsigned: true }).notNull(),
+    /** check findings at save time */
+    checks: jsonDoc<unknown>('checks').notNull(),
+    authorId: varchar('author_id', { length: 40 })
+      .notNull()
+      .references(() => users.id),
+    message: text('message').notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    uniqueIndex('revisions_plate_number_uq').on(t.plateId, t.number),
+    index('revisions_status_idx').on(t.status),
+    index('revisions_parent_idx').on(t.parentRevisionId),
+  ],
+);
+
+export const reviews = mysqlTable(
+  'reviews',
+  {
+    id: pk(),
+    revisionId: idRef('revision_id')
+      .notNull()
+      .references(() => revisions.id),
+    reviewerId: varchar('reviewer_id', { length: 40 })
+      .notNull()
+      .references(() => users.id),
+    decision: mysqlEnum('decision', REVIEW_DECISIONS).notNull(),
+    comment: text('comment').notNull(),
+    /** written waivers per check finding: [{ code, featureIds, reason }] */
+    waivers: jsonDoc<unknown>('waivers'),
+    createdAt: createdAt(),
+  },
+  (t) => [index('reviews_revision_idx').on(t.revisionId)],
+);
+
+export const artifacts = mysqlTable(
+  'artifacts',
+  {
+    id: pk(),
+    revisionId: idRef('revision_id')
+      .notNull()
+      .references(() => revisions.id),
+    /** file name, e.g. plate.step, plate.dxf, drawing.pdf */
+    kind: varchar('kind', { length: 40 }).notNull(),
+    contentType: varchar('content_type', { length: 100 }).notNull(),
+    sha256: char('sha256', { length: 64 }).notNull(),
+    sizeBytes: int('size_bytes', { unsigned: true }).notNull(),
+    bytes: longblob('bytes').notNull(),
+    kernelVersion: varchar('kernel_version', { length: 80 }).notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex('artifacts_revision_kind_uq').on(t.revisionId, t.kind)],
+);
+
+export const uploads = mysqlTable(
+  'uploads',
+  {
+    id: pk(),
+    projectId: idRef('project_id')
+      .notNull()
+      .references(() => projects.id),
+    fileName: varchar('file_name', { length: 255 }).notNull(),
+    /** xyz | csv | ply | stl | probe-csv */
+    kind: varchar('kind', { length: 20 }).notNull(),
+    sizeBytes: bigint('size_bytes', { mode: 'number', unsigned: true }).notNull(),
+    sha256: char('sha256', { length: 64 }).notNull(),
+    storageKey: varchar('storage_key', { length: 255 }).notNull(),
+    /** parsed summary: point count, bounding box, units guess … */
+    summary: jsonDoc<unknown>('summary').notNull(),
+    uploadedById: varchar('uploaded_by_id', { length: 40 })
+      .notNull()
+      .references(() => users.id),
+    createdAt: createdAt(),
+  },
+  (t) => [index('uploads_project_idx').on(t.projectId), uniqueIndex('uploads_storage_key_uq').on(t.storageKey)],
+);
+
+export const auditEvents = mysqlTable(
+  'audit_events',
+  {
+    id: pk(),
+    /** null for the system or an anonymous caller */
+    actorId: varchar('actor_id', { length: 40 }).references(() => users.id),
+    action: varchar('action', { length: 64 }).notNull(),
+    targetType: varchar('target_type', { length: 32 }).notNull(),
+    targetId: varchar('target_id', { length: 64 }).notNull(),
+    details: jsonDoc<unknown>('details').notNull(),
+    at: datetime('at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [index('audit_target_idx').on(t.targetType, t.targetId), index('audit_actor_idx').on(t.actorId), index('audit_at_idx').on(t.at)],
+);

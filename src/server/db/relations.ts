@@ -1,5 +1,18 @@
 import { relations } from 'drizzle-orm';
-import { artifacts, auditEvents, plates, projectMembers, projects, reviews, revisions, sessions, uploads, users } from './schema';
+import {
+  artifacts,
+  auditEvents,
+  invitations,
+  passwordResetTokens,
+  plates,
+  projectMembers,
+  projects,
+  reviews,
+  revisions,
+  sessions,
+  uploads,
+  users,
+} from './schema';
 
 // Relations for typing and documentation. On MariaDB 10.11 query with the core builder and joins:
 // the relational query API needs LATERAL joins that MariaDB lacks.
@@ -57,4 +70,13 @@ export const uploadsRelations = relations(uploads, ({ one }) => ({
 
 export const auditEventsRelations = relations(auditEvents, ({ one }) => ({
   actor: one(users, { fields: [auditEvents.actorId], references: [users.id] }),
+}));
+
+export const invitationsRelations = relations(invitations, ({ one }) => ({
+  invitedBy: one(users, { fields: [invitations.invitedById], references: [users.id], relationName: 'invitedBy' }),
+  acceptedUser: one(users, { fields: [invitations.acceptedUserId], references: [users.id], relationName: 'acceptedUser' }),
+}));
+
+export const passwordResetTokensRelations = relations(passwordResetTokens, ({ one }) => ({
+  user: one(users, { fields: [passwordResetTokens.userId], references: [users.id] }),
 }));

@@ -207,3 +207,57 @@ export const auditEvents = mysqlTable(
   },
   (t) => [index('audit_target_idx').on(t.targetType, t.targetId), index('audit_actor_idx').on(t.actorId), index('audit_at_idx').on(t.at)],
 );
+
+// ── Sign-in, invitations, password resets ─────────────────────────────────────────────────────
+// Tokens sent by e-mail are never stored: only their keyed SHA-256 (see src/server/auth/tokens.ts).
+
+/** One-time invitation to join the shop with a role; accepted once, within its expiry. */
+export const invitations = mysqlTable(
+  'invitations',
+  {
+    id: pk(),
+    email: varchar('email', { length: 254 }).notNull(),
+    role: mysqlEnum('role', ROLES).notNull(),
+    tokenHash: char('token_hash', { length: 64 }).notNull(),
+    invitedById: varchar('invited_by_id', { length: 40 })
+      .notNull()
+      .references(() => users.id),
+    expiresAt: datetime('expires_at', { mode: 'date', fsp: 3 }).notNull(),
+    acceptedAt: datetime('accepted_at', { mode: 'date', fsp: 3 }),
+    acceptedUserId: varchar('accepted_user_id', { length: 40 }).references(() => users.id),
+    /** set when a newer invitation to the same address replaces this one */
+    revokedAt: datetime('revoked_at', { mode: 'date', fsp: 3 }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex('invitations_token_hash_uq').on(t.tokenHash), index('invitations_email_idx').on(t.email)],
+);
+
+/** One-time password reset link for an existing user. */
+export const passwordResetTokens = mysqlTable(
+  'password_reset_tokens',
+  {
+    id: pk(),
+    userId: varchar('user_id', { length: 40 })
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    tokenHash: char('token_hash', { length: 64 }).notNull(),
+    expiresAt: datetime('expires_at', { mode: 'date', fsp: 3 }).notNull(),
+    usedAt: datetime('used_at', { mode: 'date', fsp: 3 }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex('password_reset_token_hash_uq').on(t.tokenHash), index('password_reset_user_idx').on(t.userId)],
+);
+
+/** Every sign-in attempt by e-mail address, for the failed-attempt limit. Never the password. */
+export const signInAttempts = mysqlTable(
+  'sign_in_attempts',
+  {
+    id: pk(),
+    /** normalised (trimmed, lower-case) address as typed, known or not */
+    email: varchar('email', { length: 254 }).notNull(),
+    succeeded: boolean('succeeded').notNull(),
+    ip: varchar('ip', { length: 64 }),
+    at: datetime('at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [index('sign_in_attempts_email_at_idx').on(t.email, t.at)],
+);

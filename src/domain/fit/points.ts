@@ -9,7 +9,7 @@ export type Points2 = readonly { readonly x: number; readonly y: number }[] | Fl
 export type Points3 = readonly { readonly x: number; readonly y: number; readonly z: number }[] | Float64Array;
 
 /** Flattens and validates points; a Float64Array is checked in place, not copied. */
-export function flatPoints(points: Points2 | Points3, dims: 2 | 3, what: string): Float64Array {
+export function flatPoints(points: Points2 | Points3, dims: 2 | 3, what: string, minPoints = 3): Float64Array {
   let flat: Float64Array;
   if (points instanceof Float64Array) {
     if (points.length % dims !== 0) {
@@ -45,8 +45,8 @@ export function flatPoints(points: Points2 | Points3, dims: 2 | 3, what: string)
     }
   }
   const n = flat.length / dims;
-  if (n < 3) {
-    throw new DomainError('fit.tooFewPoints', `${what} needs at least 3 points, got ${n}.`, ['points']);
+  if (n < minPoints) {
+    throw new DomainError('fit.tooFewPoints', `${what} needs at least ${minPoints} point${minPoints === 1 ? '' : 's'}, got ${n}.`, ['points']);
   }
   return flat;
 }

@@ -45,9 +45,13 @@ function unitOf(token: string | undefined, defaultUnit: LengthUnit): LengthUnit 
   return token.toLowerCase().startsWith('m') ? 'mm' : 'in';
 }
 
-function invalid(text: string, why: string, path?: (string | number)[]): DomainError {
+function invalid(text: string, why: string, defaultUnit: LengthUnit, path?: (string | number)[]): DomainError {
   const where = path && path.length > 0 ? ` at ${path.join('.')}` : '';
-  return new DomainError('length.invalid', `Cannot read "${text}" as a length${where}: ${why} (${ACCEPTED_FORMS}).`, path);
+  return new DomainError(
+    'length.invalid',
+    `Cannot read "${text}" as a length${where}: ${why} (${ACCEPTED_FORMS}; without a unit: ${defaultUnit}).`,
+    path,
+  );
 }
 
 /**
@@ -67,22 +71,23 @@ export function parseLength(text: string, defaultUnit: LengthUnit, path?: (strin
     throw new DomainError('length.unit', `Unknown length unit "${String(defaultUnit)}": use "mm" or "in".`, path);
   }
   if (typeof text !== 'string') {
-    throw invalid(String(text), 'expected text', path);
+    throw invalid(String(text), 'expected text', defaultUnit, path);
   }
   const trimmed = text.trim();
-  if (trimmed === '') throw invalid(text, 'the field is empty', path);
+  if (trimmed === '') throw invalid(text, 'the field is empty', defaultUnit, path);
 
   if (trimmed.includes(',')) {
     const suggestion = trimmed.replace(/,/g, '.');
     throw invalid(
       text,
       `a comma is not accepted — write the decimal with a dot (e.g. "${suggestion}") and leave out thousands separators`,
+      defaultUnit,
       path,
     );
   }
 
   const m = LENGTH_RE.exec(trimmed);
-  if (!m) throw invalid(text, 'not a number with an optional unit', path);
+  if (!m) throw invalid(text, 'not a number with an optional unit', defaultUnit, path);
 
   const sign = m[1] === '-' ? -1 : 1;
   const unit = unitOf(m[8], defaultUnit);
@@ -92,22 +97,22 @@ export function parseLength(text: string, defaultUnit: LengthUnit, path?: (strin
     const whole = Number(m[2]);
     const num = Number(m[3]);
     const den = Number(m[4]);
-    if (den === 0) throw invalid(text, 'the fraction has a zero denominator', path);
+    if (den === 0) throw invalid(text, 'the fraction has a zero denominator', defaultUnit, path);
     if (num >= den) {
-      throw invalid(text, `in a mixed number the fraction must be less than 1 (got ${num}/${den})`, path);
+      throw invalid(text, `in a mixed number the fraction must be less than 1 (got ${num}/${den})`, defaultUnit, path);
     }
     magnitude = whole + num / den;
   } else if (m[5] !== undefined) {
     const num = Number(m[5]);
     const den = Number(m[6]);
-    if (den === 0) throw invalid(text, 'the fraction has a zero denominator', path);
+    if (den === 0) throw invalid(text, 'the fraction has a zero denominator', defaultUnit, path);
     magnitude = num / den;
   } else {
     magnitude = Number(m[7]);
   }
 
   const mm = sign * magnitude * (unit === 'in' ? MM_PER_IN : 1);
-  if (!Number.isFinite(mm)) throw invalid(text, 'the number is too large', path);
+  if (!Number.isFinite(mm)) throw invalid(text, 'the number is too large', defaultUnit, path);
   // -0 is not a length anyone typed on purpose
   return mm === 0 ? 0 : mm;
 }

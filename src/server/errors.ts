@@ -1,0 +1,63 @@
+import { z } from 'zod';
+import { json, jsonError } from './http';
+
+/** A failure the caller can act on, with its HTTP status. Thrown by repositories, answered by `handle`. */
+export class AppError extends Error {
+  constructor(
+    readonly status: number,
+    readonly code: string,
+    message: string,
+    readonly extra: Record<string, unknown> = {},
+  ) {
+    super(message);
+    this.name = 'AppError';
+  }
+}
+
+export const notFound = (what: string) => new AppError(404, 'not_found', `${what} not found.`);
+export const forbidden = (message: string) => new AppError(403, 'forbidden', message);
+
+/** MariaDB went away (stopped, restarting, pool exhausted): the request fails cleanly with 503. */
+function isDatabaseDown(e: unknown): boolean {
+  const code = (e as { code?: string })?.code ?? (e as { cause?: { code?: string } })?.cause?.code;
+  return ['ECONNREFUSED', 'PROTOCOL_CONNECTION_LOST', 'ETIMEDOUT', 'ECONNRESET', 'ER_CON_COUNT_ERROR', 'EPIPE'].includes(code ?? '');
+}
+
+/** Run an endpoint body; AppError → its status, zod errors → 400 with fields, anything else → 500 without internals. */
+export async function handle(fn: () => Promise<Response>): Promise<Response> {
+  try {
+    return await fn();
+  } catch (e) {
+    if (e instanceof AppError) return json({ error: { code: e.code, message: e.message, ...e.extra } }, e.status);
+    if (e instanceof z.ZodError) {
+      const fields: Record<string, string> = {};
+      for (const issue of e.issues) fields[issue.path.join('.') || '(body)'] = issue.message;
+      return jsonError(400, 'invalid_input', 'The request is not valid: ' + Object.entries(fields).map(([k, v]) => `${k}: ${v}`).join('; '), fields);
+    }
+    if (isDatabaseDown(e)) return jsonError(503, 'database_unavailable', 'The database is not reachable right now; nothing was changed. Try again in a moment.');
+    console.error('[platewright] unexpected error:', e instanceof Error ? e.message : String(e));
+    return jsonError(500, 'internal', 'Something went wrong on our side; nothing was changed.');
+  }
+}
+
+/** Read a JSON body with a zod schema; bad JSON and unknown fields answer 400 with a message. */
+export async function readBody<T extends z.ZodType>(request: Request, schema: T, maxBytes = 2_000_000): Promise<z.infer<T>> {
+  const length = Number(request.headers.get('content-length') ?? 0);
+  if (length > maxBytes) throw new AppError(413, 'too_large', `The request body is larger than ${Math.round(maxBytes / 1000)} kB.`);
+  const text = await request.text();
+  if (text.length > maxBytes) throw new AppError(413, 'too_large', `The request body is larger than ${Math.round(maxBytes / 1000)} kB.`);
+  let data: unknown;
+  try {
+    data = text.length ? JSON.parse(text) : {};
+  } catch {
+    throw new AppError(400, 'invalid_json', 'The request body is not valid JSON.');
+  }
+  return schema.parse(data);
+}
+
+/** Route parameter as a positive integer id, or 404. */
+export function idParam(value: string | undefined, what: string): number {
+  const n = Number(value);
+  if (!value || !Number.isSafeInteger(n) || n <= 0) throw notFound(what);
+  return n;
+}

@@ -38,7 +38,7 @@ export const GET: APIRoute = ({ locals, params }) =>
       sha = f.sha256;
       preview = true;
     }
-    return new Response(bytes, {
+    return new Response(bytes as unknown as BodyInit, {
       status: 200,
       headers: {
         'content-type': contentType,

@@ -53,7 +53,6 @@ export function stackUp(chain: readonly StackDimension[]): StackUpResult {
   let wcMin = 0;
   let wcMax = 0;
   let mean = 0;
-  let variance = 0;
   const halves: number[] = [];
   chain.forEach((d, i) => {
     if (typeof d?.name !== 'string' || d.name.trim() === '') throw dimError(i, 'name', 'needs a name.');
@@ -78,11 +77,13 @@ export function stackUp(chain: readonly StackDimension[]): StackUpResult {
       wcMax -= lo;
     }
     mean += d.sense * (d.nominalMm + (d.plusMm - d.minusMm) / 2);
-    const half = (d.plusMm + d.minusMm) / 2;
-    halves.push(half);
-    variance += half * half;
+    halves.push((d.plusMm + d.minusMm) / 2);
   });
-  const rssHalf = Math.sqrt(variance);
+  // squares of scaled half bands: no underflow for tiny tolerances
+  const largest = Math.max(...halves);
+  const scaled = halves.map((h) => (largest > 0 ? (h / largest) ** 2 : 0));
+  const variance = scaled.reduce((a, b) => a + b, 0);
+  const rssHalf = largest * Math.sqrt(variance);
   return Object.freeze({
     nominalMm: nominal,
     worstCase: Object.freeze({ minMm: wcMin, maxMm: wcMax }),
@@ -90,7 +91,7 @@ export function stackUp(chain: readonly StackDimension[]): StackUpResult {
     meanMm: mean,
     contributions: Object.freeze(
       chain.map((d, i) =>
-        Object.freeze({ name: d.name, shareOfVariance: variance > 0 ? (halves[i]! * halves[i]!) / variance : 0 }),
+        Object.freeze({ name: d.name, shareOfVariance: variance > 0 ? scaled[i]! / variance : 0 }),
       ),
     ),
   });

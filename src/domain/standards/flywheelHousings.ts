@@ -3,10 +3,11 @@
  * and the crank-flange-to-housing-face depth. Tabulated in inch, returned in mm.
  *
  * Hole positions: the holes straddle the vertical centreline — the first hole is half a pitch
- * off vertical (8 holes: 22.5°, 12 holes: 15°, 16 holes: 11.25°). Angles are measured
- * counter-clockwise from +X in plate coordinates (origin on the crank axis, +Y up) and listed
- * ascending in [0, 360). Every pattern here has an even count per half, so it is symmetric about
- * both the vertical and the horizontal centreline.
+ * off vertical (8 holes: 22.5°, 12 holes: 15°, 16 holes: 11.25°), just right of top, at
+ * 90° − pitch/2; the others follow counter-clockwise. Angles are measured counter-clockwise from
+ * +X in plate coordinates (origin on the crank axis, +Y up), each normalised to [0, 360). Every
+ * pattern here has an even count per half, so it is symmetric about both the vertical and the
+ * horizontal centreline.
  *
  * Bore/face runout limits (max TIR by housing bore) are the SAE housing alignment values.
  */
@@ -38,8 +39,10 @@ export interface FlywheelHousing {
   readonly holeCount: number;
   /** normalised thread designation of the housing holes, e.g. '3/8-16 UNC' */
   readonly thread: string;
-  /** CCW from +X, ascending in [0, 360) */
+  /** CCW from +X, each in [0, 360): the first at 90° − pitch/2, then counter-clockwise */
   readonly holeAnglesDeg: readonly number[];
+  /** angle of the first hole (90° − pitch/2), for `boltCircle({ count, startAngleDeg })` */
+  readonly startAngleDeg: number;
   readonly crankFlangeToHousingFaceMm: number;
   /** bore and face runout limit, total indicator reading */
   readonly maxRunoutTirMm: number;
@@ -77,15 +80,14 @@ const RUNOUT_TIR_IN: readonly { readonly boreUpToIn: number; readonly tirIn: num
   { boreUpToIn: 31, tirIn: 0.012 },
 ];
 
-/** Holes straddling the vertical: 90° ± half a pitch, then every pitch; ascending in [0, 360). */
+/** Holes straddling the vertical: the first at 90° − pitch/2, then every pitch CCW; each in [0, 360). */
 export function straddlingHoleAnglesDeg(count: number): number[] {
   const pitch = 360 / count;
   const angles: number[] = [];
   for (let k = 0; k < count; k++) {
-    const a = (((90 - pitch / 2 + k * pitch) % 360) + 360) % 360;
-    angles.push(a);
+    angles.push((((90 - pitch / 2 + k * pitch) % 360) + 360) % 360);
   }
-  return angles.sort((a, b) => a - b);
+  return angles;
 }
 
 export function flywheelHousing(size: FlywheelHousingSize): FlywheelHousing {
@@ -105,6 +107,7 @@ export function flywheelHousing(size: FlywheelHousingSize): FlywheelHousing {
     holeCount: row.holes,
     thread: parseFastener(row.thread + ' UNC').designation,
     holeAnglesDeg: Object.freeze(straddlingHoleAnglesDeg(row.holes)),
+    startAngleDeg: 90 - 180 / row.holes,
     crankFlangeToHousingFaceMm: row.depthIn * MM_PER_IN,
     maxRunoutTirMm: tir.tirIn * MM_PER_IN,
   });

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { DomainError } from '~/domain/errors';
+import { boltCircle } from '~/domain/geometry/boltCircle';
 import { FLYWHEEL_HOUSING_SIZES, flywheelHousing } from '~/domain/standards/flywheelHousings';
 
 describe('SAE J617 flywheel housings', () => {
@@ -41,8 +42,11 @@ describe('SAE J617 flywheel housings', () => {
   });
 
   it('holes straddle the vertical: 8 holes start 22.5° off vertical (SAE J617 [S])', () => {
-    const a = flywheelHousing('5').holeAnglesDeg;
-    expect(a).toEqual([22.5, 67.5, 112.5, 157.5, 202.5, 247.5, 292.5, 337.5]);
+    const h = flywheelHousing('5');
+    const a = h.holeAnglesDeg;
+    // first hole just right of top at 90 − 22.5 = 67.5°, then counter-clockwise
+    expect(a).toEqual([67.5, 112.5, 157.5, 202.5, 247.5, 292.5, 337.5, 22.5]);
+    expect(h.startAngleDeg).toBe(67.5);
     // no hole on the vertical centreline (90°, 270°), two holes at 90 ± 22.5
     expect(a).toContain(90 - 22.5);
     expect(a).toContain(90 + 22.5);
@@ -50,20 +54,24 @@ describe('SAE J617 flywheel housings', () => {
 
   it('12 holes start 15° and 16 holes 11.25° off vertical (half pitch, from memory per REFERENCES [M])', () => {
     const a12 = flywheelHousing('3').holeAnglesDeg;
-    expect(a12[0]).toBeCloseTo(15, 12);
+    expect(a12[0]).toBeCloseTo(90 - 15, 12);
     expect(a12).toContain(75);
     expect(a12).toContain(105);
     const a16 = flywheelHousing('00').holeAnglesDeg;
-    expect(a16[0]).toBeCloseTo(11.25, 12);
+    expect(a16[0]).toBeCloseTo(90 - 11.25, 12);
     expect(a16.some((x) => Math.abs(x - 78.75) < 1e-9)).toBe(true);
     expect(a16.some((x) => Math.abs(x - 101.25) < 1e-9)).toBe(true);
   });
 
-  it('every pattern is evenly spaced, ascending, and mirror-symmetric about the vertical', () => {
+  it('every pattern is evenly spaced counter-clockwise and mirror-symmetric about the vertical', () => {
     for (const s of FLYWHEEL_HOUSING_SIZES) {
       const a = flywheelHousing(s).holeAnglesDeg;
       const pitch = 360 / a.length;
-      for (let i = 1; i < a.length; i++) expect(a[i]! - a[i - 1]!).toBeCloseTo(pitch, 9);
+      for (let i = 1; i < a.length; i++) expect((((a[i]! - a[i - 1]!) % 360) + 360) % 360).toBeCloseTo(pitch, 9);
+      for (const t of a) {
+        expect(t).toBeGreaterThanOrEqual(0);
+        expect(t).toBeLessThan(360);
+      }
       // mirror about the vertical (x → −x) maps angle θ to 180 − θ
       for (const t of a) {
         const mirrored = (((180 - t) % 360) + 360) % 360;
@@ -80,6 +88,14 @@ describe('SAE J617 flywheel housings', () => {
     expect(flywheelHousing('1/2').maxRunoutTirMm).toBeCloseTo(0.01 * 25.4, 12);
     expect(flywheelHousing('0').maxRunoutTirMm).toBeCloseTo(0.01 * 25.4, 12);
     expect(flywheelHousing('00').maxRunoutTirMm).toBeCloseTo(0.012 * 25.4, 12);
+  });
+
+  it('its start angle reproduces the hole list through boltCircle', () => {
+    const h = flywheelHousing('2');
+    const holes = boltCircle({ diameterMm: h.boltCircleDiameterMm, count: h.holeCount, startAngleDeg: h.startAngleDeg });
+    holes.forEach((p, i) => expect(p.angleDeg).toBeCloseTo(h.holeAnglesDeg[i]!, 9));
+    // SAE J617 size 2 bolt circle 18.375 in: radius 233.3625 mm
+    expect(Math.hypot(holes[0]!.x, holes[0]!.y)).toBeCloseTo(18.375 * 25.4 / 2, 9);
   });
 
   it('refuses an unknown size', () => {

@@ -9,6 +9,13 @@ bash scripts/db.sh start
 export DB_PORT="${DB_PORT:-3406}"
 npx tsx scripts/migrate.ts
 npx tsx scripts/seed.ts
+# Mail: SMTP_URL when set (production); otherwise the local mail catcher, readable at /admin/mail.
+if [ -z "${SMTP_URL:-}" ] && [ "${NODE_ENV:-}" != "production" ]; then
+  export MAIL_FAKE_PORT="${MAIL_FAKE_PORT:-2526}" MAIL_FAKE_DIR="${MAIL_FAKE_DIR:-$ROOT/.data/mail}"
+  export SMTP_URL="smtp://127.0.0.1:$MAIL_FAKE_PORT"
+  bash scripts/mail-fake.sh start
+fi
+npx tsx scripts/check-config.ts
 ensure_build
 
 export HOST="${HOST:-127.0.0.1}"

@@ -12,16 +12,27 @@ export DB_USER=platewright DB_PASSWORD=platewright-test
 export TEST_APP_PORT="${TEST_APP_PORT:-4327}"
 export NODE_ENV=test
 unset DATABASE_URL
+# Mail goes to a local catcher of the test run's own (port + folder), never to a real server.
+export MAIL_FAKE_PORT="${MAIL_FAKE_PORT:-2527}"
+if [ "$MAIL_FAKE_PORT" = 2527 ]; then MAIL_FAKE_DIR_DEFAULT="$ROOT/.data/test-mail"; else MAIL_FAKE_DIR_DEFAULT="$ROOT/.data/test-mail-$MAIL_FAKE_PORT"; fi
+export MAIL_FAKE_DIR="${TEST_MAIL_FAKE_DIR:-$MAIL_FAKE_DIR_DEFAULT}"
+export SMTP_URL="smtp://127.0.0.1:$MAIL_FAKE_PORT"
+unset APP_URL
 
 bash scripts/prepare.sh --with-browser
 
 db_was_running=0
 bash scripts/db.sh status >/dev/null 2>&1 && db_was_running=1
+mail_was_running=0
+bash scripts/mail-fake.sh status >/dev/null 2>&1 && mail_was_running=1
 cleanup() {
   if [ "$db_was_running" = 0 ]; then bash scripts/db.sh stop >/dev/null 2>&1 || true; fi
+  if [ "$mail_was_running" = 0 ]; then bash scripts/mail-fake.sh stop >/dev/null 2>&1 || true; fi
 }
 trap cleanup EXIT
 
+rm -rf "$MAIL_FAKE_DIR"
+bash scripts/mail-fake.sh start
 bash scripts/db.sh start
 # A fresh test database every run; the demo instance is never touched.
 mariadb --no-defaults --socket="$DB_DIR/mysqld.sock" -uroot -e "DROP DATABASE IF EXISTS \`$DB_NAME\`"

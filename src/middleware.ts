@@ -1,0 +1,41 @@
+import { defineMiddleware, sequence } from 'astro:middleware';
+import { authConfig, ConfigError } from './server/config';
+import { identify } from './server/auth/session';
+
+// Works out WHO is asking (locals.user / locals.session) and nothing else: every page and endpoint
+// enforces its own rule with requireRole / requirePageRole (src/server/auth/guard.ts).
+
+let configChecked = false;
+
+/** Settings that cannot work stop the server at once, with the reason, rather than half-serving. */
+const settings = defineMiddleware((_ctx, next) => {
+  if (!configChecked) {
+    try {
+      authConfig();
+      configChecked = true;
+    } catch (err) {
+      if (err instanceof ConfigError) {
+        console.error(`[platewright] ${err.message}`);
+        process.exit(1);
+      }
+      throw err;
+    }
+  }
+  return next();
+});
+
+const who = defineMiddleware(async (ctx, next) => {
+  ctx.locals.user = null;
+  ctx.locals.session = null;
+  try {
+    const found = await identify(ctx.cookies);
+    ctx.locals.user = found.user;
+    ctx.locals.session = found.session;
+  } catch (err) {
+    // Database unreachable: treat the caller as anonymous for this request and keep the cookie.
+    console.error(`[platewright] could not check the session: ${err instanceof Error ? err.message : String(err)}`);
+  }
+  return next();
+});
+
+export const onRequest = sequence(settings, who);

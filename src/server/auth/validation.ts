@@ -1,0 +1,85 @@
+import { z } from 'zod';
+import { ROLES } from '../db/schema';
+import { AuthError } from './errors';
+
+export const PASSWORD_MIN = 10;
+export const PASSWORD_MAX = 200;
+
+export const emailSchema = z
+  .string({ error: 'Enter an e-mail address.' })
+  .trim()
+  .toLowerCase()
+  .min(1, 'Enter an e-mail address.')
+  .max(254, 'An e-mail address has at most 254 characters.')
+  .pipe(z.email({ error: 'Enter an e-mail address like name@example.test.' }));
+
+export const newPasswordSchema = z
+  .string({ error: 'Choose a password.' })
+  .min(PASSWORD_MIN, `Use at least ${PASSWORD_MIN} characters.`)
+  .max(PASSWORD_MAX, `Use at most ${PASSWORD_MAX} characters.`);
+
+export const nameSchema = z
+  .string({ error: 'Enter a name.' })
+  .trim()
+  .min(1, 'Enter a name.')
+  .max(200, 'A name has at most 200 characters.');
+
+export const roleSchema = z.enum(ROLES, { error: `Choose a role: ${ROLES.join(', ')}.` });
+
+export const signInSchema = z.object({
+  email: emailSchema,
+  password: z.string({ error: 'Enter your password.' }).min(1, 'Enter your password.').max(1000, 'That password is too long.'),
+});
+
+export const userPatchSchema = z
+  .object({
+    role: roleSchema.optional(),
+    active: z.boolean({ error: 'active must be true or false.' }).optional(),
+  })
+  .refine((p) => p.role !== undefined || p.active !== undefined, { error: 'Nothing to change: send role and/or active.' });
+
+export const inviteSchema = z.object({ email: emailSchema, role: roleSchema });
+
+export const acceptInviteSchema = z.object({ name: nameSchema, password: newPasswordSchema });
+
+export const resetRequestSchema = z.object({ email: emailSchema });
+
+export const resetSchema = z.object({ password: newPasswordSchema });
+
+export const accountSchema = z.object({ name: nameSchema });
+
+export const passwordChangeSchema = z.object({
+  currentPassword: z.string({ error: 'Enter your current password.' }).min(1, 'Enter your current password.').max(1000),
+  newPassword: newPasswordSchema,
+});
+
+/** Zod issues as `{ field: message }` (the first message per field; "form" for the whole body). */
+export function fieldErrors(error: z.ZodError): Record<string, string> {
+  const fields: Record<string, string> = {};
+  for (const issue of error.issues) {
+    const key = issue.path.length ? String(issue.path[0]) : 'form';
+    fields[key] ??= issue.message;
+  }
+  return fields;
+}
+
+/** Parse with a schema or throw a 400 AuthError naming each bad field. */
+export function parseWith<T extends z.ZodType>(schema: T, input: unknown): z.infer<T> {
+  const r = schema.safeParse(input);
+  if (r.success) return r.data;
+  const fields = fieldErrors(r.error);
+  const first = Object.values(fields)[0] ?? 'Check the highlighted fields.';
+  throw new AuthError(400, 'invalid_input', Object.keys(fields).length > 1 ? 'Check the highlighted fields.' : first, fields);
+}
+
+/** The JSON body of a request, parsed with a schema; a body that is not JSON is a 400, not a crash. */
+export async function readJson<T extends z.ZodType>(request: Request, schema: T): Promise<z.infer<T>> {
+  let body: unknown;
+  try {
+    const text = await request.text();
+    body = text.trim() === '' ? {} : JSON.parse(text);
+  } catch {
+    throw new AuthError(400, 'invalid_json', 'The request body must be JSON, e.g. {"email":"…"}.');
+  }
+  return parseWith(schema, body);
+}

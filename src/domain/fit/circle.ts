@@ -46,6 +46,8 @@ export interface CircleFitOptions {
 /** Smallest/largest eigenvalue of the normalised scatter below this: the points lie on a line. */
 const COLLINEAR_RATIO = 1e-14;
 const MAX_ITERATIONS = 200;
+/** A radius this many times the points' RMS spread is a straight line for every practical purpose. */
+const MAX_NORMALISED_RADIUS = 1e7;
 
 interface Frame {
   readonly flat: Float64Array;
@@ -253,6 +255,13 @@ function geometric(frame: Frame, start: { cx: number; cy: number; r: number }): 
         if (stepNorm <= 1e-12 * (1 + Math.abs(r)) || relDrop < 1e-15 || cost <= 1e-30 * n) {
           return finish();
         }
+        if (Math.abs(r) > MAX_NORMALISED_RADIUS) {
+          throw new DomainError(
+            'fit.collinear',
+            `Circle fit: the best-fitting circle grows without bound — the ${n} points are closer to a straight line than to any circle.`,
+            ['points'],
+          );
+        }
         break;
       }
       lambda *= 10;
@@ -262,7 +271,7 @@ function geometric(frame: Frame, start: { cx: number; cy: number; r: number }): 
   }
   throw new DomainError(
     'fit.notConverged',
-    `Circle fit: the geometric fit did not converge in ${MAX_ITERATIONS} iterations; the points may be close to a straight line.`,
+    `Circle fit: the geometric fit did not settle in ${MAX_ITERATIONS} iterations; the points do not define a clear circle (nearly a straight line, or a tight cluster with a few outliers).`,
     ['points'],
   );
 

@@ -294,6 +294,27 @@ describe('degenerate input', () => {
     expect(() => fitCircle(pts)).toThrow(/point 1 has a non-finite y/);
     expect(codeOf(() => fitCircle(Float64Array.of(0, 0, 1, 0, 0, Infinity)))).toBe('fit.nonFinite');
   });
+  it('a line with one point slightly off: the circle runs off to infinity and is refused, not returned', () => {
+    const pts = [...Array.from({ length: 20 }, (_, i) => ({ x: i - 10, y: 0 })), { x: 0, y: 1e-9 }];
+    expect(codeOf(() => fitCircle(pts))).toMatch(/^fit\.(collinear|notConverged)$/);
+  });
+
+  it('never NaN: any finite input gives a finite circle or a DomainError (property)', () => {
+    const pointArb = fc.record({ x: fc.integer({ min: -3, max: 3 }), y: fc.integer({ min: -3, max: 3 }) });
+    fc.assert(
+      fc.property(fc.array(pointArb, { minLength: 0, maxLength: 8 }), fc.constantFrom('geometric', 'algebraic', 'kasa' as const), (pts, method) => {
+        try {
+          const f = fitCircle(pts, { method: method as CircleFitMethod });
+          for (const v of [f.centerX, f.centerY, f.radius, f.rms, f.maxDeviation, f.roundness]) expect(Number.isFinite(v)).toBe(true);
+          expect(f.radius).toBeGreaterThan(0);
+        } catch (e) {
+          expect(e).toBeInstanceOf(DomainError);
+        }
+      }),
+      { numRuns: 500 },
+    );
+  });
+
   it('malformed input', () => {
     expect(codeOf(() => fitCircle(new Float64Array(7)))).toBe('fit.input');
     expect(codeOf(() => fitCircle('points' as never))).toBe('fit.input');

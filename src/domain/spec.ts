@@ -28,17 +28,22 @@ import { parseFastener } from './standards/threads';
 /** Feature ids the plate gives its own features. */
 export const RESERVED_FEATURE_IDS = Object.freeze({ centreBore: 'C1', starterBore: 'S1', starterPocket: 'P1' });
 
+/** An error message for a type-level check: "is required" when the field is missing. */
+function need(message: string): { error: (issue: { input?: unknown }) => string } {
+  return { error: (issue) => (issue.input === undefined ? 'is required' : message) };
+}
+
 const ID_RE = /^[A-Za-z][A-Za-z0-9_-]{0,15}$/;
 
 const featureIdSchema = z
-  .string({ error: 'must be a feature id (text)' })
+  .string(need('must be a feature id (text)'))
   .regex(ID_RE, { error: 'must start with a letter and hold up to 16 letters, digits, "-" or "_" (e.g. "E1", "TD2")' });
 
-const mm = z.number({ error: 'must be a number of millimetres' });
+const mm = z.number(need('must be a number of millimetres'));
 const positiveMm = mm.positive({ error: 'must be greater than 0 mm' });
 const nonNegativeMm = mm.min(0, { error: 'must be 0 mm or more' });
-const deg = z.number({ error: 'must be a number of degrees' });
-const sideSchema = z.enum(['engine', 'transmission'], { error: 'must be "engine" or "transmission"' });
+const deg = z.number(need('must be a number of degrees'));
+const sideSchema = z.enum(['engine', 'transmission'], need('must be "engine" or "transmission"'));
 const noteSchema = z.string().max(500, { error: 'must be at most 500 characters' });
 
 /** Calls a standards lookup inside a refinement; its DomainError message becomes the issue. */
@@ -74,7 +79,7 @@ export const boltPatternSchema = z
   .object({
     id: featureIdSchema,
     diameterMm: positiveMm,
-    count: z.int({ error: 'must be a whole number of holes' }).min(1).max(360).optional(),
+    count: z.int(need('must be a whole number of holes')).min(1).max(360).optional(),
     startAngleDeg: deg.optional(),
     anglesDeg: z.array(deg).min(1, { error: 'must list at least one angle' }).max(360).optional(),
     centerX: mm.default(0),
@@ -118,15 +123,13 @@ export const dowelSchema = z
   })
   .strict();
 
-const clearanceClassSchema = z.enum(CLEARANCE_CLASSES as [ClearanceClass, ...ClearanceClass[]], {
-  error: 'must be one of fine, medium, coarse (ISO 273) or close, normal, loose (ASME B18.2.8)',
-});
+const clearanceClassSchema = z.enum(CLEARANCE_CLASSES as [ClearanceClass, ...ClearanceClass[]], need('must be one of fine, medium, coarse (ISO 273) or close, normal, loose (ASME B18.2.8)'));
 
 /** Fields every hole shares, wherever it is placed. */
 const holeFields = {
   id: featureIdSchema,
   /** clearance: a bolt passes; tapped: the plate is threaded; dowel: reamed for a dowel pin; stud: a flange stud passes */
-  role: z.enum(['clearance', 'tapped', 'dowel', 'stud'], { error: 'must be "clearance", "tapped", "dowel" or "stud"' }),
+  role: z.enum(['clearance', 'tapped', 'dowel', 'stud'], need('must be "clearance", "tapped", "dowel" or "stud"')),
   /** e.g. "M10x1.5", "M10", "3/8-16 UNC", "3/8" */
   fastener: z.string().trim().min(1, { error: 'must name a fastener, e.g. "M10x1.5" or "3/8-16 UNC"' }).optional(),
   /** clearance holes; default medium (metric) / normal (inch) */
@@ -210,7 +213,7 @@ export const holeSchema = z
     x: mm.optional(),
     y: mm.optional(),
     patternId: featureIdSchema.optional(),
-    index: z.int({ error: 'must be a whole number (0 = the first hole of the pattern)' }).min(0).optional(),
+    index: z.int(need('must be a whole number (0 = the first hole of the pattern)')).min(0).optional(),
   })
   .strict()
   .superRefine((h, ctx) => {
@@ -243,7 +246,7 @@ export const flangeFootprintSchema = z.discriminatedUnion(
     z.object({ kind: z.literal('hull'), marginMm: nonNegativeMm.default(10) }).strict(),
     z.object({ kind: z.literal('polygon'), points: z.array(point2Schema).min(3, { error: 'needs at least 3 points' }) }).strict(),
   ],
-  { error: 'kind must be "hull" or "polygon"' },
+  need('kind must be "hull" or "polygon"'),
 );
 
 /** One flange (engine rear face or transmission bell-housing face) as measured. */
@@ -254,7 +257,7 @@ export const faceSchema = z
      * e.g. at the engine's rear face); `front` = looking rearward at the face (e.g. at the bell
      * housing's mating face) — mirrored x → −x onto the plate.
      */
-    viewedFrom: z.enum(['rear', 'front'], { error: 'must be "rear" (plate coordinates) or "front" (mirrored onto the plate)' }),
+    viewedFrom: z.enum(['rear', 'front'], need('must be "rear" (plate coordinates) or "front" (mirrored onto the plate)')),
     description: z.string().max(200).optional(),
     patterns: z.array(boltPatternSchema).default([]),
     holes: z.array(holeSchema).default([]),
@@ -319,7 +322,7 @@ const limitsSchema = z
  */
 export const centreBoreSchema = z
   .object({
-    kind: z.enum(['bore', 'register'], { error: 'must be "bore" or "register"' }),
+    kind: z.enum(['bore', 'register'], need('must be "bore" or "register"')),
     diameterMm: positiveMm,
     /** ISO 286 hole class, e.g. "H7" */
     fit: z.string().trim().min(1).optional(),
@@ -342,7 +345,7 @@ export const centreBoreSchema = z
 export const starterHoleSchema = z
   .object({
     id: featureIdSchema,
-    role: z.enum(['clearance', 'tapped'], { error: 'must be "clearance" or "tapped"' }),
+    role: z.enum(['clearance', 'tapped'], need('must be "clearance" or "tapped"')),
     fastener: holeFields.fastener,
     clearanceClass: holeFields.clearanceClass,
     diameterMm: holeFields.diameterMm,
@@ -373,7 +376,7 @@ export const starterRecessSchema = z
           .strict()
           .refine((s) => s.lengthMm >= s.widthMm, { error: 'lengthMm must be at least widthMm', path: ['lengthMm'] }),
       ],
-      { error: 'kind must be "circle" or "slot"' },
+      need('kind must be "circle" or "slot"'),
     ),
   })
   .strict();
@@ -384,7 +387,7 @@ export const starterSchema = z
     side: sideSchema.default('engine'),
     ringGear: z
       .object({
-        teeth: z.int({ error: 'must be a whole number of teeth' }).min(20).max(400),
+        teeth: z.int(need('must be a whole number of teeth')).min(20).max(400),
         moduleMm: positiveMm.optional(),
         diametralPitch: z.number().positive({ error: 'must be greater than 0 (teeth per inch of pitch diameter)' }).optional(),
       })
@@ -394,7 +397,7 @@ export const starterSchema = z
           ctx.addIssue({ code: 'custom', message: 'give either moduleMm (metric) or diametralPitch (inch), not both or neither', path: ['moduleMm'] });
         }
       }),
-    pinion: z.object({ teeth: z.int({ error: 'must be a whole number of teeth' }).min(5).max(40) }).strict(),
+    pinion: z.object({ teeth: z.int(need('must be a whole number of teeth')).min(5).max(40) }).strict(),
     /** position of the nose bore around the crank axis, plate coordinates, CCW from +X */
     angleDeg: deg,
     /** where the nose bore centre is actually put from the axis; default: the gear centre distance */
@@ -435,7 +438,7 @@ export const outlineSchema = z.discriminatedUnion(
       })
       .strict(),
   ],
-  { error: 'kind must be "auto" or "polygon"' },
+  need('kind must be "auto" or "polygon"'),
 );
 
 export const materialSchema = z
@@ -443,7 +446,7 @@ export const materialSchema = z
     name: z.string().trim().min(1).max(60),
     densityGPerCm3: z.number().positive({ error: 'must be greater than 0 g/cm³' }).max(25),
     yieldMpa: z.number().positive({ error: 'must be greater than 0 MPa' }).optional(),
-    kind: z.enum(['aluminium', 'steel', 'castIron', 'other'], { error: 'must be "aluminium", "steel", "castIron" or "other"' }),
+    kind: z.enum(['aluminium', 'steel', 'castIron', 'other'], need('must be "aluminium", "steel", "castIron" or "other"')),
   })
   .strict();
 
@@ -466,10 +469,10 @@ export const tolerancesSchema = z
 
 export const plateSpecSchema = z
   .object({
-    schemaVersion: z.literal(1, { error: 'must be 1 (this version of the plate spec)' }),
+    schemaVersion: z.literal(1, need('must be 1 (this version of the plate spec)')),
     displayUnits: z
       .object({
-        length: z.enum(['mm', 'in'], { error: 'must be "mm" or "in"' }).default('mm'),
+        length: z.enum(['mm', 'in'], need('must be "mm" or "in"')).default('mm'),
         /** inch values as fractions to 1/64 */
         fractions: z.boolean().default(false),
       })
@@ -478,7 +481,7 @@ export const plateSpecSchema = z
     datum: z
       .object({
         /** the plate's origin: always the crankshaft axis */
-        origin: z.literal('crankshaftAxis', { error: 'must be "crankshaftAxis"' }).default('crankshaftAxis'),
+        origin: z.literal('crankshaftAxis', need('must be "crankshaftAxis"')).default('crankshaftAxis'),
         note: noteSchema.optional(),
       })
       .strict()
@@ -490,7 +493,7 @@ export const plateSpecSchema = z
     starter: starterSchema.optional(),
     thicknessMm: positiveMm.max(200, { error: 'must be at most 200 mm' }),
     /** which stock sizes the thickness is compared with */
-    thicknessStock: z.enum(['metric', 'inch', 'any'], { error: 'must be "metric", "inch" or "any"' }).default('any'),
+    thicknessStock: z.enum(['metric', 'inch', 'any'], need('must be "metric", "inch" or "any"')).default('any'),
     stackUp: stackUpInputsSchema.optional(),
     outline: outlineSchema.prefault({ kind: 'auto' }),
     /** 45° chamfer on both outer edges; 0 = sharp edges broken by hand */
@@ -556,7 +559,6 @@ export function specIssues(error: z.ZodError): SpecIssue[] {
       continue;
     }
     let message = issue.message;
-    if (issue.code === 'invalid_type' && issue.input === undefined) message = 'is required';
     out.push({ path: base.length ? base.join('.') : '(spec)', pathSegments: base, message });
   }
   return out;

@@ -42,8 +42,19 @@ describe('ISO 273 metric clearance holes', () => {
     expect(clearanceHole('M12', 'normal')).toMatchObject({ fitClass: 'medium', standard: 'ISO 273' });
   });
 
-  it('second source: ISO 273 values outside the project table', () => {
-    // ISO 273 (from memory, not in REFERENCES): M20 medium 22 mm — not tabulated here, so it must be refused, not guessed
+  it('second source: a fastener supplier\'s ISO 273 table gives the same M10 close/fine hole', () => {
+    // ISO 273 as reprinted in a fastener supplier's socket-screw calculator: M10 close (fine) 10.5 mm
+    expect(clearanceHoleMm('M10', 'fine')).toBe(10.5);
+    // each series is wider than the one before and every hole clears the bolt
+    for (const [bolt, fine, medium, coarse] of table) {
+      expect(fine).toBeGreaterThan(Number(bolt.slice(1)));
+      expect(medium).toBeGreaterThan(fine);
+      expect(coarse).toBeGreaterThan(medium);
+    }
+  });
+
+  it('sizes outside the project table are refused, not guessed', () => {
+    // ISO 273 has M20 (medium 22 mm, from memory) but this table stops at M16
     expect(codeOf(() => clearanceHoleMm('M20', 'medium'))).toBe('clearance.unsupported');
   });
 });
@@ -65,6 +76,18 @@ describe('ASME B18.2.8 inch clearance holes', () => {
     const range = clearanceRangeMm(bolt);
     expect(range.minMm).toBeCloseTo(close * 25.4, 9);
     expect(range.maxMm).toBeCloseTo(loose * 25.4, 9);
+  });
+
+  it('second check: every inch clearance hole is a fractional drill (n/64 in) rounded to 3 decimals (from memory)', () => {
+    // e.g. 3/8 close 25/64 = 0.3906, normal 13/32 = 0.4062, loose 27/64 = 0.4219; 1/2 normal 9/16 = 0.5625
+    for (const [bolt, ...values] of table) {
+      for (const inch of values) {
+        const sixtyFourths = Math.round(inch * 64);
+        expect(Math.abs(sixtyFourths / 64 - inch)).toBeLessThanOrEqual(0.0005 + 1e-12);
+        // and the hole is larger than the bolt
+        expect(inch).toBeGreaterThan(Number(bolt.split('/')[0]) / Number(bolt.split('/')[1]));
+      }
+    }
   });
 
   it('accepts a thread designation and reports the class in ASME words', () => {

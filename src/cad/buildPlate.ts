@@ -1,0 +1,669 @@
+/**
+ * buildPlate(oc, profile) → a verified solid. Pure with respect to the profile: the same profile
+ * gives the same solid; nothing is read from outside, nothing is kept except by the cache below.
+ *
+ * Strategies
+ *  - direct B-rep (primary, when the 2D layout is disjoint): the chamfered side wall is one ruled
+ *    shell through the outline wires (inset at the faces, full in between); every round feature's
+ *    wall is a cylindrical face, every pocket wall a prism of its outline; the two plate faces are
+ *    planar faces with the features as inner wires; counterbore, blind-hole and pocket floors are
+ *    planar faces. All faces are sewn into one shell and closed into a solid. No boolean runs.
+ *  - one-face fallback: the outline face with every plain through hole as an inner wire is
+ *    extruded once (or, with an edge chamfer, the ruled blank is made), then ONE cut removes all
+ *    other features, each given as a separate tool (never a compound of overlapping solids).
+ *
+ * Every result is verified before anyone sees it: a valid solid, its volume equal to the 2D
+ * analytic volume (relative error < 1e-9) and one cylindrical face per round feature.
+ */
+import type { OpenCascadeInstance, TopoDS_Edge, TopoDS_Face, TopoDS_Shape, TopoDS_Wire } from 'replicad-opencascadejs';
+import type { OutlineSegment, PlateProfile } from '../domain/profileTypes';
+import { arcSweepRad, pointInChain } from '../domain/exports/outlineMath';
+import { analyticVolumeMm3 } from './analyticVolume';
+import { describeKernelFailure, PlateBuildError } from './errors';
+import { offsetOutlineInward } from './offsetOutline';
+import { analyseLayout, type CircleColumn, type PocketColumn, type VoidColumn } from './plateModel';
+
+export type BuildStrategy = 'direct' | 'oneFace';
+
+export interface PlateVerification {
+  readonly valid: boolean;
+  readonly volumeMm3: number;
+  readonly analyticVolumeMm3: number;
+  readonly volumeRelErr: number;
+  readonly cylindricalFaces: number;
+  readonly expectedCylindricalFaces: number;
+  readonly bbox: { minX: number; minY: number; minZ: number; maxX: number; maxY: number; maxZ: number };
+}
+
+export interface BuiltPlate {
+  /** the solid (owned by the caller: call dispose() when done) */
+  readonly shape: TopoDS_Shape;
+  readonly strategy: BuildStrategy;
+  readonly verification: PlateVerification;
+  /** strategies tried before this one and why they were rejected */
+  readonly rejected: readonly string[];
+  dispose(): void;
+}
+
+export interface BuildOptions {
+  /** force a strategy (tests and benchmarks); default: direct when the layout allows, else one-face */
+  readonly strategy?: BuildStrategy;
+  /** the domain's verdict on the layout; when false the direct B-rep is not tried */
+  readonly layoutIsDisjoint?: boolean;
+  /** skip BRepCheck (benchmarks of the raw build only); verification of volume and faces stays */
+  readonly skipValidityCheck?: boolean;
+  /** receives the duration of each build stage (benchmarks) */
+  readonly onStage?: (stage: string, ms: number) => void;
+}
+
+const VOLUME_REL_TOL = 1e-9;
+
+type Deletable = { delete(): void };
+
+/** Collects kernel objects made during a build and frees them together. */
+class Scope {
+  private readonly items: Deletable[] = [];
+  own<T extends Deletable>(o: T): T {
+    this.items.push(o);
+    return o;
+  }
+  /** take an object out of the scope (it outlives the build) */
+  release<T extends Deletable>(o: T): T {
+    const i = this.items.lastIndexOf(o);
+    if (i >= 0) this.items.splice(i, 1);
+    return o;
+  }
+  free(): void {
+    for (let i = this.items.length - 1; i >= 0; i--) {
+      try {
+        this.items[i]!.delete();
+      } catch {
+        /* already gone */
+      }
+    }
+    this.items.length = 0;
+  }
+}
+
+/** A small geometry toolkit over the raw kernel, every object registered in the scope. */
+class Kit {
+  constructor(
+    readonly oc: OpenCascadeInstance,
+    readonly s: Scope,
+  ) {}
+
+  pnt(x: number, y: number, z: number) {
+    return this.s.own(new this.oc.gp_Pnt(x, y, z));
+  }
+  private up: InstanceType<OpenCascadeInstance['gp_Dir']> | null = null;
+  private down: InstanceType<OpenCascadeInstance['gp_Dir']> | null = null;
+  dirZ(up: boolean) {
+    if (up) return (this.up ??= this.s.own(new this.oc.gp_Dir(0, 0, 1)));
+    return (this.down ??= this.s.own(new this.oc.gp_Dir(0, 0, -1)));
+  }
+  ax2(x: number, y: number, z: number, up: boolean) {
+    return this.s.own(new this.oc.gp_Ax2(this.pnt(x, y, z), this.dirZ(up)));
+  }
+
+  segmentEdge(seg: OutlineSegment, z: number): TopoDS_Edge {
+    const oc = this.oc;
+    if (seg.kind === 'line') {
+      const mk = this.s.own(new oc.BRepBuilderAPI_MakeEdge(this.pnt(seg.start.x, seg.start.y, z), this.pnt(seg.end.x, seg.end.y, z)));
+      return this.s.own(mk.Edge());
+    }
+    const circ = this.s.own(new oc.gp_Circ(this.ax2(seg.center.x, seg.center.y, z, seg.ccw), seg.radiusMm));
+    if (Math.abs(Math.abs(arcSweepRad(seg)) - 2 * Math.PI) < 1e-9) {
+      return this.s.own(this.s.own(new oc.BRepBuilderAPI_MakeEdge(circ)).Edge());
+    }
+    const mk = this.s.own(
+      new oc.BRepBuilderAPI_MakeEdge(circ, this.pnt(seg.start.x, seg.start.y, z), this.pnt(seg.end.x, seg.end.y, z)),
+    );
+    return this.s.own(mk.Edge());
+  }
+
+  chainWire(chain: readonly OutlineSegment[], z: number): TopoDS_Wire {
+    const mk = this.s.own(new this.oc.BRepBuilderAPI_MakeWire());
+    for (const seg of chain) mk.Add(this.segmentEdge(seg, z));
+    if (!mk.IsDone()) throw new Error('outline wire could not be closed');
+    return this.s.own(mk.Wire());
+  }
+
+  /** full circle wire; ccw=true runs counter-clockwise seen from +Z */
+  circleWire(x: number, y: number, r: number, z: number, ccw: boolean): TopoDS_Wire {
+    const circ = this.s.own(new this.oc.gp_Circ(this.ax2(x, y, z, ccw), r));
+    const e = this.s.own(this.s.own(new this.oc.BRepBuilderAPI_MakeEdge(circ)).Edge());
+    return this.s.own(this.s.own(new this.oc.BRepBuilderAPI_MakeWire(e)).Wire());
+  }
+
+  /** planar face at height z, normal +Z, outer wire ccw, inner wires cw */
+  planarFace(z: number, outer: TopoDS_Wire, inner: readonly TopoDS_Wire[]): TopoDS_Face {
+    const oc = this.oc;
+    const pln = this.s.own(new oc.gp_Pln(this.pnt(0, 0, z), this.dirZ(true)));
+    const mk = this.s.own(new oc.BRepBuilderAPI_MakeFace(pln, outer, true));
+    for (const w of inner) mk.Add(w);
+    if (!mk.IsDone()) throw new Error(`planar face at z=${z} failed`);
+    return this.s.own(mk.Face());
+  }
+
+  cylinderFace(x: number, y: number, r: number, z0: number, z1: number): TopoDS_Face {
+    const oc = this.oc;
+    const ax3 = this.s.own(new oc.gp_Ax3(this.pnt(x, y, z0), this.dirZ(true)));
+    const cyl = this.s.own(new oc.gp_Cylinder(ax3, r));
+    const mk = this.s.own(new oc.BRepBuilderAPI_MakeFace(cyl, 0, 2 * Math.PI, 0, z1 - z0));
+    if (!mk.IsDone()) throw new Error('cylindrical face failed');
+    return this.s.own(mk.Face());
+  }
+
+  prism(shape: TopoDS_Shape, dz: number): TopoDS_Shape {
+    const vec = this.s.own(new this.oc.gp_Vec(0, 0, dz));
+    const mk = this.s.own(new this.oc.BRepPrimAPI_MakePrism(shape, vec, false, true));
+    return this.s.own(mk.Shape());
+  }
+
+  list(shapes: readonly TopoDS_Shape[]) {
+    const l = this.s.own(new this.oc.NCollection_List_TopoDS_Shape());
+    for (const sh of shapes) l.Append(sh);
+    return l;
+  }
+}
+
+function reversedChain(chain: readonly OutlineSegment[]): OutlineSegment[] {
+  const out: OutlineSegment[] = [];
+  for (let i = chain.length - 1; i >= 0; i--) {
+    const s = chain[i]!;
+    out.push(s.kind === 'line' ? { kind: 'line', start: s.end, end: s.start } : { ...s, start: s.end, end: s.start, ccw: !s.ccw });
+  }
+  return out;
+}
+
+/** The side wall: ruled through the outline wires (chamfered) or a prism of the outline. */
+function sideWall(k: Kit, profile: PlateProfile, asSolid: boolean): { shape: TopoDS_Shape; bottom: TopoDS_Wire; top: TopoDS_Wire } {
+  const t = profile.thicknessMm;
+  const c = profile.edgeChamferMm;
+  const oc = k.oc;
+  if (c > 0) {
+    const inset = offsetOutlineInward(profile.outline, c);
+    const w0 = k.chainWire(inset, 0);
+    const w1 = k.chainWire(profile.outline, c);
+    const w2 = k.chainWire(profile.outline, t - c);
+    const w3 = k.chainWire(inset, t);
+    const loft = k.s.own(new oc.BRepOffsetAPI_ThruSections(asSolid, true, 1e-6));
+    loft.AddWire(w0);
+    loft.AddWire(w1);
+    loft.AddWire(w2);
+    loft.AddWire(w3);
+    loft.CheckCompatibility(false);
+    loft.Build();
+    if (!loft.IsDone()) throw new Error('ruled side wall failed');
+    return { shape: k.s.own(loft.Shape()), bottom: w0, top: w3 };
+  }
+  const w0 = k.chainWire(profile.outline, 0);
+  const w1 = k.chainWire(profile.outline, t);
+  if (asSolid) {
+    const face = k.planarFace(0, w0, []);
+    return { shape: k.prism(face, t), bottom: w0, top: w1 };
+  }
+  return { shape: k.prism(w0, t), bottom: w0, top: w1 };
+}
+
+interface Stack {
+  readonly id: string;
+  readonly cols: CircleColumn[];
+}
+
+function stacksOf(columns: readonly VoidColumn[]): { stacks: Stack[]; pockets: PocketColumn[] } {
+  const byId = new Map<string, CircleColumn[]>();
+  const pockets: PocketColumn[] = [];
+  for (const col of columns) {
+    if (col.shape === 'chain') {
+      pockets.push(col);
+      continue;
+    }
+    const list = byId.get(col.featureId) ?? [];
+    list.push(col);
+    byId.set(col.featureId, list);
+  }
+  const stacks: Stack[] = [];
+  for (const [id, cols] of byId) stacks.push({ id, cols: cols.sort((a, b) => a.z0 - b.z0) });
+  return { stacks, pockets };
+}
+
+const Z_EPS = 1e-9;
+
+type Stage = (name: string) => void;
+
+function stageTimer(cb?: (stage: string, ms: number) => void): Stage {
+  if (!cb) return () => {};
+  let t = performance.now();
+  return (name) => {
+    const now = performance.now();
+    cb(name, now - t);
+    t = now;
+  };
+}
+
+function childShapes(k: Kit, shape: TopoDS_Shape, type: 'face' | 'edge' | 'wire'): TopoDS_Shape[] {
+  const oc = k.oc;
+  const e = oc.TopAbs_ShapeEnum;
+  const what = type === 'face' ? e.TopAbs_FACE : type === 'edge' ? e.TopAbs_EDGE : e.TopAbs_WIRE;
+  const out: TopoDS_Shape[] = [];
+  const ex = k.s.own(new oc.TopExp_Explorer(shape, what, e.TopAbs_SHAPE));
+  for (; ex.More(); ex.Next()) out.push(k.s.own(ex.Current()));
+  return out;
+}
+
+function facesOf(k: Kit, shape: TopoDS_Shape): TopoDS_Face[] {
+  return childShapes(k, shape, 'face').map((f) => k.s.own(k.oc.TopoDS.Face(f)));
+}
+
+function wireOf(k: Kit, edges: readonly TopoDS_Edge[]): TopoDS_Wire {
+  const mk = k.s.own(new k.oc.BRepBuilderAPI_MakeWire());
+  for (const e of edges) mk.Add(e);
+  if (!mk.IsDone()) throw new Error('a wire could not be closed');
+  return k.s.own(mk.Wire());
+}
+
+function reversedWire(k: Kit, w: TopoDS_Wire): TopoDS_Wire {
+  return k.s.own(k.oc.TopoDS.Wire(k.s.own(w.Reversed())));
+}
+
+function reversedFace(k: Kit, f: TopoDS_Face): TopoDS_Face {
+  return k.s.own(k.oc.TopoDS.Face(k.s.own(f.Reversed())));
+}
+
+/** Point and normal (as oriented) at the middle of a face's parameter range. */
+function midNormal(k: Kit, f: TopoDS_Face): { p: [number, number, number]; n: [number, number, number] } {
+  const oc = k.oc;
+  const g = k.s.own(new oc.BRepGProp_Face(f, false));
+  const b = g.Bounds(0, 0, 0, 0);
+  const P = k.pnt(0, 0, 0);
+  const N = k.s.own(new oc.gp_Vec(0, 0, 1));
+  g.Normal((b.U1 + b.U2) / 2, (b.V1 + b.V2) / 2, P, N);
+  const l = N.Magnitude();
+  return { p: [P.X(), P.Y(), P.Z()], n: [N.X() / l, N.Y() / l, N.Z() / l] };
+}
+
+/**
+ * Faces of a swept band, turned so that their normals point out of the material. All faces of
+ * one sweep share one orientation, so one probe decides for the band.
+ */
+function orientBand(k: Kit, faces: TopoDS_Face[], outward: (p: [number, number, number], n: [number, number, number]) => boolean): TopoDS_Face[] {
+  if (faces.length === 0) return faces;
+  const probe = midNormal(k, faces[0]!);
+  return outward(probe.p, probe.n) ? faces : faces.map((f) => reversedFace(k, f));
+}
+
+/**
+ * A planar face whose outward normal is +Z (up) or −Z, bounded by the given wires, which are
+ * already oriented for that normal (outer counter-clockwise around it, inner clockwise).
+ */
+function orientedPlanarFace(k: Kit, z: number, up: boolean, outer: TopoDS_Wire, inner: readonly TopoDS_Wire[]): TopoDS_Face {
+  const oc = k.oc;
+  const pln = k.s.own(new oc.gp_Pln(k.pnt(0, 0, z), k.dirZ(up)));
+  const mk = k.s.own(new oc.BRepBuilderAPI_MakeFace(pln, outer, false));
+  for (const w of inner) mk.Add(w);
+  if (!mk.IsDone()) throw new Error(`planar face at z=${z} failed`);
+  return k.s.own(mk.Face());
+}
+
+/** The outer side of the plate as outward faces, plus the outer wires of the two plate faces (oriented for them). */
+function directSideWall(k: Kit, profile: PlateProfile): { faces: TopoDS_Face[]; bottomOuter: TopoDS_Wire; topOuter: TopoDS_Wire } {
+  const oc = k.oc;
+  const t = profile.thicknessMm;
+  const c = profile.edgeChamferMm;
+  const eps = 0.25;
+  const outwardXY = (p: [number, number, number], n: [number, number, number]) =>
+    !pointInChain(profile.outline, { x: p[0] + n[0] * eps, y: p[1] + n[1] * eps });
+  const faces: TopoDS_Face[] = [];
+  const wallFrom = (w: TopoDS_Wire, h: number) => {
+    const vec = k.s.own(new oc.gp_Vec(0, 0, h));
+    const mk = k.s.own(new oc.BRepPrimAPI_MakePrism(w, vec, false, true));
+    const shape = k.s.own(mk.Shape());
+    faces.push(...orientBand(k, facesOf(k, shape), outwardXY));
+    return k.s.own(oc.TopoDS.Wire(k.s.own(mk.LastShape())));
+  };
+  const ruled = (a: TopoDS_Wire, b: TopoDS_Wire, down: boolean) => {
+    const loft = k.s.own(new oc.BRepOffsetAPI_ThruSections(false, true, 1e-6));
+    loft.AddWire(a);
+    loft.AddWire(b);
+    loft.CheckCompatibility(false);
+    loft.Build();
+    if (!loft.IsDone()) throw new Error('the edge chamfer could not be made');
+    const shape = k.s.own(loft.Shape());
+    faces.push(...orientBand(k, facesOf(k, shape), (_p, n) => (down ? n[2] < 0 : n[2] > 0)));
+  };
+  if (c > 0) {
+    const inset = offsetOutlineInward(profile.outline, c);
+    const w0 = k.chainWire(inset, 0);
+    const w1 = k.chainWire(profile.outline, c);
+    ruled(w0, w1, true);
+    const w2 = wallFrom(w1, t - 2 * c);
+    const w3 = k.chainWire(inset, t);
+    ruled(w2, w3, false);
+    return { faces, bottomOuter: reversedWire(k, w0), topOuter: w3 };
+  }
+  const w0 = k.chainWire(profile.outline, 0);
+  const w3 = wallFrom(w0, t);
+  return { faces, bottomOuter: reversedWire(k, w0), topOuter: w3 };
+}
+
+/**
+ * Direct B-rep: every face made once, neighbours sharing their edges, no sewing and no boolean.
+ * Every face is oriented with its normal out of the material and bounded counter-clockwise
+ * around that normal (holes clockwise), so each shared edge is used in opposite directions by
+ * its two faces and the faces close into one valid shell.
+ */
+function buildDirect(k: Kit, profile: PlateProfile, columns: readonly VoidColumn[], stage: Stage): TopoDS_Shape {
+  const oc = k.oc;
+  const t = profile.thicknessMm;
+  const side = directSideWall(k, profile);
+  stage('sideWall');
+
+  const faces: TopoDS_Face[] = [...side.faces];
+  const bottomInner: TopoDS_Wire[] = [];
+  const topInner: TopoDS_Wire[] = [];
+  const { stacks, pockets } = stacksOf(columns);
+  const wireOfEdge = (e: TopoDS_Edge) => k.s.own(k.s.own(new oc.BRepBuilderAPI_MakeWire(e)).Wire());
+
+  for (const st of stacks) {
+    // each column's wall: a cylinder face; its boundary runs bottom circle (counter-clockwise
+    // seen from +Z), seam, top circle (clockwise), seam — the orientations every neighbour needs
+    const rims: { bottom: TopoDS_Wire; top: TopoDS_Wire }[] = [];
+    for (const col of st.cols) {
+      const wallFace = k.cylinderFace(col.center.x, col.center.y, col.radiusMm, col.z0, col.z1);
+      // the face's wire runs: seam, bottom circle, seam, top circle (BRepLib_MakeFace order)
+      const edges = childShapes(k, wallFace, 'edge');
+      const bottom = edges.length === 4 ? k.s.own(oc.TopoDS.Edge(edges[1]!)) : null;
+      const top = edges.length === 4 ? k.s.own(oc.TopoDS.Edge(edges[3]!)) : null;
+      if (!bottom || !top) throw new Error(`the wall of ${st.id} could not be made`);
+      rims.push({ bottom: wireOfEdge(bottom), top: wireOfEdge(top) });
+      faces.push(reversedFace(k, wallFace));
+    }
+    for (let i = 0; i < st.cols.length; i++) {
+      const col = st.cols[i]!;
+      const rim = rims[i]!;
+      if (i === 0) {
+        if (col.z0 <= Z_EPS) bottomInner.push(rim.bottom);
+        else faces.push(orientedPlanarFace(k, col.z0, true, rim.bottom, []));
+      } else {
+        const below = st.cols[i - 1]!;
+        const lowerWide = below.radiusMm > col.radiusMm;
+        faces.push(
+          lowerWide
+            ? orientedPlanarFace(k, col.z0, false, rims[i - 1]!.top, [rim.bottom])
+            : orientedPlanarFace(k, col.z0, true, rim.bottom, [rims[i - 1]!.top]),
+        );
+      }
+      if (i === st.cols.length - 1) {
+        if (col.z1 >= t - Z_EPS) topInner.push(rim.top);
+        else faces.push(orientedPlanarFace(k, col.z1, false, rim.top, []));
+      }
+    }
+  }
+  for (const p of pockets) {
+    const w0 = k.chainWire(p.outline, p.z0);
+    const vec = k.s.own(new oc.gp_Vec(0, 0, p.z1 - p.z0));
+    const mk = k.s.own(new oc.BRepPrimAPI_MakePrism(w0, vec, false, true));
+    const eps = 0.25;
+    const walls = orientBand(k, facesOf(k, k.s.own(mk.Shape())), (q, n) => pointInChain(p.outline, { x: q[0] + n[0] * eps, y: q[1] + n[1] * eps }));
+    faces.push(...walls);
+    const w1 = k.s.own(oc.TopoDS.Wire(k.s.own(mk.LastShape())));
+    if (p.z0 <= Z_EPS) {
+      bottomInner.push(w0);
+      faces.push(orientedPlanarFace(k, p.z1, false, reversedWire(k, w1), []));
+    } else {
+      topInner.push(reversedWire(k, w1));
+      faces.push(orientedPlanarFace(k, p.z0, true, w0, []));
+    }
+  }
+  faces.push(orientedPlanarFace(k, 0, false, side.bottomOuter, bottomInner));
+  faces.push(orientedPlanarFace(k, t, true, side.topOuter, topInner));
+  stage('faces');
+
+  const builder = k.s.own(new oc.TopoDS_Builder());
+  const shell = k.s.own(new oc.TopoDS_Shell());
+  builder.MakeShell(shell);
+  for (const f of faces) builder.Add(shell, f);
+  shell.Closed(true);
+  const solid = k.s.own(new oc.TopoDS_Solid());
+  builder.MakeSolid(solid);
+  builder.Add(solid, shell);
+  stage('solid');
+  return solid;
+}
+
+function buildOneFace(k: Kit, profile: PlateProfile, columns: readonly VoidColumn[]): TopoDS_Shape {
+  const oc = k.oc;
+  const t = profile.thicknessMm;
+  const c = profile.edgeChamferMm;
+  const tools: TopoDS_Shape[] = [];
+  let blank: TopoDS_Shape;
+  const isPlain = (col: VoidColumn): col is CircleColumn => col.shape === 'circle' && col.z0 <= Z_EPS && col.z1 >= t - Z_EPS;
+  if (c === 0) {
+    const inner = columns.filter(isPlain).map((col) => k.circleWire(col.center.x, col.center.y, col.radiusMm, 0, false));
+    const face = k.planarFace(0, k.chainWire(profile.outline, 0), inner);
+    blank = k.prism(face, t);
+  } else {
+    blank = sideWall(k, profile, true).shape;
+  }
+  const over = 1; // tools reach 1 mm past a plate face they open onto
+  for (const col of columns) {
+    if (c === 0 && isPlain(col)) continue;
+    const z0 = col.z0 <= Z_EPS ? -over : col.z0;
+    const z1 = col.z1 >= t - Z_EPS ? t + over : col.z1;
+    if (col.shape === 'circle') {
+      const mk = k.s.own(new oc.BRepPrimAPI_MakeCylinder(k.ax2(col.center.x, col.center.y, z0, true), col.radiusMm, z1 - z0));
+      tools.push(k.s.own(mk.Shape()));
+    } else {
+      const face = k.planarFace(z0, k.chainWire(col.outline, z0), []);
+      tools.push(k.prism(face, z1 - z0));
+    }
+  }
+  if (tools.length === 0) return blank;
+  const cut = k.s.own(new oc.BRepAlgoAPI_Cut());
+  cut.SetArguments(k.list([blank]));
+  cut.SetTools(k.list(tools));
+  cut.Build(k.s.own(new oc.Message_ProgressRange()));
+  if (!cut.IsDone() || cut.HasErrors()) {
+    cut.Clear();
+    throw new Error('the boolean cut of the features failed');
+  }
+  const result = k.s.own(cut.Shape());
+  cut.Clear();
+  return result;
+}
+
+function countCylindricalFaces(oc: OpenCascadeInstance, s: Scope, shape: TopoDS_Shape): number {
+  let n = 0;
+  const ex = s.own(new oc.TopExp_Explorer(shape, oc.TopAbs_ShapeEnum.TopAbs_FACE, oc.TopAbs_ShapeEnum.TopAbs_SHAPE));
+  for (; ex.More(); ex.Next()) {
+    const f = oc.TopoDS.Face(ex.Current());
+    const ad = new oc.BRepAdaptor_Surface(f, true);
+    if (ad.GetType() === oc.GeomAbs_SurfaceType.GeomAbs_Cylinder) n++;
+    ad.delete();
+    f.delete();
+  }
+  return n;
+}
+
+/** Cylindrical faces the finished plate must have: one per round feature column, plus the outline's and pockets' arcs. */
+export function expectedCylindricalFaces(profile: PlateProfile, columns: readonly VoidColumn[]): number {
+  let n = profile.outline.filter((s) => s.kind === 'arc').length;
+  for (const col of columns) n += col.shape === 'circle' ? 1 : col.outline.filter((s) => s.kind === 'arc').length;
+  return n;
+}
+
+export function measureVolumeMm3(oc: OpenCascadeInstance, shape: TopoDS_Shape): number {
+  const props = new oc.GProp_GProps();
+  oc.BRepGProp.VolumeProperties(shape, props, true, false, false);
+  const v = props.Mass();
+  props.delete();
+  return v;
+}
+
+export function measureBoundingBox(oc: OpenCascadeInstance, shape: TopoDS_Shape): PlateVerification['bbox'] {
+  const box = new oc.Bnd_Box();
+  oc.BRepBndLib.AddOptimal(shape, box, false, false);
+  const r = { minX: box.GetXMin(), minY: box.GetYMin(), minZ: box.GetZMin(), maxX: box.GetXMax(), maxY: box.GetYMax(), maxZ: box.GetZMax() };
+  box.delete();
+  return r;
+}
+
+function isValidSolid(oc: OpenCascadeInstance, s: Scope, shape: TopoDS_Shape): boolean {
+  if (shape.ShapeType() !== oc.TopAbs_ShapeEnum.TopAbs_SOLID) {
+    // a boolean returns a compound holding one solid
+    let solids = 0;
+    const ex = s.own(new oc.TopExp_Explorer(shape, oc.TopAbs_ShapeEnum.TopAbs_SOLID, oc.TopAbs_ShapeEnum.TopAbs_SHAPE));
+    for (; ex.More(); ex.Next()) solids++;
+    if (solids !== 1) return false;
+  }
+  const an = s.own(new oc.BRepCheck_Analyzer(shape, true, false, false));
+  return an.IsValid();
+}
+
+export function verifyPlate(
+  oc: OpenCascadeInstance,
+  shape: TopoDS_Shape,
+  profile: PlateProfile,
+  columns: readonly VoidColumn[],
+  opts: { skipValidityCheck?: boolean } = {},
+): PlateVerification {
+  const s = new Scope();
+  try {
+    const valid = opts.skipValidityCheck ? true : isValidSolid(oc, s, shape);
+    const volumeMm3 = measureVolumeMm3(oc, shape);
+    const analytic = analyticVolumeMm3(profile, columns);
+    return {
+      valid,
+      volumeMm3,
+      analyticVolumeMm3: analytic,
+      volumeRelErr: Math.abs(volumeMm3 - analytic) / analytic,
+      cylindricalFaces: countCylindricalFaces(oc, s, shape),
+      expectedCylindricalFaces: expectedCylindricalFaces(profile, columns),
+      bbox: measureBoundingBox(oc, shape),
+    };
+  } finally {
+    s.free();
+  }
+}
+
+function verificationProblem(v: PlateVerification): string | null {
+  if (!v.valid) return 'the kernel reports the solid as invalid';
+  if (!(v.volumeRelErr < VOLUME_REL_TOL)) {
+    return `its volume ${v.volumeMm3.toFixed(3)} mm³ differs from the computed ${v.analyticVolumeMm3.toFixed(3)} mm³`;
+  }
+  if (v.cylindricalFaces !== v.expectedCylindricalFaces) {
+    return `it has ${v.cylindricalFaces} cylindrical faces where ${v.expectedCylindricalFaces} round features were expected`;
+  }
+  return null;
+}
+
+/**
+ * Builds and verifies the plate. Throws PlateBuildError (with the feature ids) for a layout the
+ * kernel must not attempt, or when no strategy produced a solid that passes verification.
+ */
+export function buildPlate(oc: OpenCascadeInstance, profile: PlateProfile, opts: BuildOptions = {}): BuiltPlate {
+  const stage = stageTimer(opts.onStage);
+  const layout = analyseLayout(profile);
+  stage('layout');
+  if (layout.errors.length > 0) {
+    const first = layout.errors[0]!;
+    if (layout.errors.length === 1) throw first;
+    const ids = [...new Set(layout.errors.flatMap((e) => e.featureIds))];
+    throw new PlateBuildError(first.code, layout.errors.map((e) => e.message).join(' '), ids);
+  }
+  const directAllowed = layout.directSafe && opts.layoutIsDisjoint !== false;
+  const order: BuildStrategy[] = opts.strategy ? [opts.strategy] : directAllowed ? ['direct', 'oneFace'] : ['oneFace'];
+  const rejected: string[] = [];
+  if (!directAllowed && !opts.strategy) rejected.push(`direct: layout not disjoint (${layout.directBlockers.join(', ') || 'domain check'})`);
+
+  for (const strategy of order) {
+    const scope = new Scope();
+    const kit = new Kit(oc, scope);
+    let shape: TopoDS_Shape | null = null;
+    try {
+      const built = strategy === 'direct' ? buildDirect(kit, profile, layout.columns, stage) : buildOneFace(kit, profile, layout.columns);
+      shape = scope.release(built);
+    } catch (e) {
+      rejected.push(`${strategy}: ${e instanceof PlateBuildError ? e.message : describeKernelFailure(oc, e)}`);
+      if (e instanceof PlateBuildError) {
+        scope.free();
+        throw e;
+      }
+    } finally {
+      scope.free();
+      stage('free');
+    }
+    if (!shape) continue;
+    let verification: PlateVerification;
+    try {
+      verification = verifyPlate(oc, shape, profile, layout.columns, opts);
+      stage('verify');
+    } catch (e) {
+      shape.delete();
+      rejected.push(`${strategy}: verification failed (${describeKernelFailure(oc, e)})`);
+      continue;
+    }
+    const problem = verificationProblem(verification);
+    if (problem) {
+      shape.delete();
+      rejected.push(`${strategy}: ${problem}`);
+      continue;
+    }
+    const keep = shape;
+    return {
+      shape: keep,
+      strategy,
+      verification,
+      rejected,
+      dispose: () => keep.delete(),
+    };
+  }
+  throw new PlateBuildError(
+    'build-unverified',
+    `The plate could not be built into a solid that matches its drawing, so it is not shown or exported. ` +
+      `Check the features near the outline, pockets and counterbores. Details: ${rejected.join('; ')}`,
+  );
+}
+
+/** Keeps the last built plate per kernel instance, keyed by the profile's canonical JSON. */
+export class PlateCache {
+  private entry: { oc: OpenCascadeInstance; key: string; plate: BuiltPlate } | null = null;
+
+  get(oc: OpenCascadeInstance, profile: PlateProfile, opts?: BuildOptions): { plate: BuiltPlate; hit: boolean } {
+    const key = profileKey(profile);
+    if (this.entry && this.entry.oc === oc && this.entry.key === key) return { plate: this.entry.plate, hit: true };
+    const plate = buildPlate(oc, profile, opts);
+    this.clear();
+    this.entry = { oc, key, plate };
+    return { plate, hit: false };
+  }
+
+  /** forget the cached solid (call when the kernel instance is recycled) */
+  clear(): void {
+    if (this.entry) {
+      try {
+        this.entry.plate.dispose();
+      } catch {
+        /* the kernel instance may be gone */
+      }
+    }
+    this.entry = null;
+  }
+}
+
+/** Canonical JSON (sorted keys) of a profile: equal profiles give equal keys. */
+export function profileKey(profile: PlateProfile): string {
+  return canonicalJson(profile);
+}
+
+export function canonicalJson(v: unknown): string {
+  if (v === null || typeof v !== 'object') return JSON.stringify(v) ?? 'null';
+  if (Array.isArray(v)) return `[${v.map(canonicalJson).join(',')}]`;
+  const o = v as Record<string, unknown>;
+  return `{${Object.keys(o)
+    .filter((k) => o[k] !== undefined)
+    .sort()
+    .map((k) => `${JSON.stringify(k)}:${canonicalJson(o[k])}`)
+    .join(',')}}`;
+}

@@ -509,16 +509,34 @@ export function measureBoundingBox(oc: OpenCascadeInstance, shape: TopoDS_Shape)
   return r;
 }
 
-function isValidSolid(oc: OpenCascadeInstance, s: Scope, shape: TopoDS_Shape): boolean {
-  if (shape.ShapeType() !== oc.TopAbs_ShapeEnum.TopAbs_SOLID) {
-    // a boolean returns a compound holding one solid
-    let solids = 0;
-    const ex = s.own(new oc.TopExp_Explorer(shape, oc.TopAbs_ShapeEnum.TopAbs_SOLID, oc.TopAbs_ShapeEnum.TopAbs_SHAPE));
-    for (; ex.More(); ex.Next()) solids++;
-    if (solids !== 1) return false;
+/**
+ * One analyser per kernel instance, re-initialised for every check: a fresh analyser per check
+ * leaves about a megabyte of wasm heap behind on the reference plate, a reused one does not.
+ */
+const analysers = new WeakMap<OpenCascadeInstance, InstanceType<OpenCascadeInstance['BRepCheck_Analyzer']>>();
+
+/** BRepCheck (topology and geometry) plus: the shape is one solid. */
+export function checkSolidValidity(oc: OpenCascadeInstance, shape: TopoDS_Shape): boolean {
+  const s = new Scope();
+  try {
+    if (shape.ShapeType() !== oc.TopAbs_ShapeEnum.TopAbs_SOLID) {
+      // a boolean returns a compound holding one solid
+      let solids = 0;
+      const ex = s.own(new oc.TopExp_Explorer(shape, oc.TopAbs_ShapeEnum.TopAbs_SOLID, oc.TopAbs_ShapeEnum.TopAbs_SHAPE));
+      for (; ex.More(); ex.Next()) solids++;
+      if (solids !== 1) return false;
+    }
+    let an = analysers.get(oc);
+    if (!an) {
+      an = new oc.BRepCheck_Analyzer(shape, true, false, false);
+      analysers.set(oc, an);
+    } else {
+      an.Init(shape, true);
+    }
+    return an.IsValid();
+  } finally {
+    s.free();
   }
-  const an = s.own(new oc.BRepCheck_Analyzer(shape, true, false, false));
-  return an.IsValid();
 }
 
 export function verifyPlate(
@@ -530,7 +548,7 @@ export function verifyPlate(
 ): PlateVerification {
   const s = new Scope();
   try {
-    const valid = opts.skipValidityCheck ? true : isValidSolid(oc, s, shape);
+    const valid = opts.skipValidityCheck ? true : checkSolidValidity(oc, shape);
     const volumeMm3 = measureVolumeMm3(oc, shape);
     const analytic = analyticVolumeMm3(profile, columns);
     return {

@@ -1,0 +1,6 @@
+/** One kernel instance per test file (started in beforeAll). */
+import { startKernelInstance, type OC } from '../../../src/cad/kernel.node';
+
+export async function startTestKernel(): Promise<OC> {
+  return startKernelInstance();
+}

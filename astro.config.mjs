@@ -8,7 +8,17 @@ export default defineConfig({
   output: 'server',
   adapter: node({ mode: 'standalone' }),
   integrations: [react()],
-  security: { checkOrigin: true },
+  security: {
+    checkOrigin: true,
+    // Hosts whose Host / X-Forwarded-Host header is trusted. Without any, every request URL is
+    // http://localhost and the origin check refuses the app's own form posts. APP_URL's host (set
+    // when building for production) is added to the local ones.
+    allowedDomains: [
+      { hostname: '127.0.0.1' },
+      { hostname: 'localhost' },
+      ...(process.env.APP_URL ? [{ hostname: new URL(process.env.APP_URL).hostname }] : []),
+    ],
+  },
   server: { host: '127.0.0.1', port: 4321 },
   vite: {
     plugins: [tailwindcss()],

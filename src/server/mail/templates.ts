@@ -29,6 +29,9 @@ export interface RenderedEmail {
 }
 
 const asIs = (value: unknown) => String(value);
+/** The five characters that matter in HTML text and quoted attributes (links stay readable). */
+const escapeHtml = (value: unknown) =>
+  String(value).replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 
 export function renderEmail<N extends TemplateName>(name: N, vars: TemplateVars[N]): RenderedEmail {
   const source = SOURCES[name];
@@ -38,6 +41,6 @@ export function renderEmail<N extends TemplateName>(name: N, vars: TemplateVars[
   return {
     subject: match[1].trim(),
     text: text.slice(match[0].length).replace(/\n{3,}/g, '\n\n'),
-    html: Mustache.render(source.html, vars),
+    html: Mustache.render(source.html, vars, {}, { escape: escapeHtml }),
   };
 }

@@ -383,6 +383,46 @@ describe('pilot engagement and bottoming', () => {
   });
 });
 
+describe('release bearing (stack-up verdict)', () => {
+  // bell face at 20; friction face at 10 + 40 = 50; fingers engaged at 50 + 30 = 80, disengaged at 72;
+  // bearing at rest at 20 + 62 = 82 → clearance 2, stroke to disengage 10
+  const bearing = (availableTravelMm: number) =>
+    plate((s) => {
+      s.stackUp = {
+        releaseBearing: {
+          plateThicknessMm: { nominalMm: 20 },
+          crankFlangePositionMm: { nominalMm: 10 },
+          flywheelDepthMm: { nominalMm: 40 },
+          fingersEngagedFromFrictionFaceMm: { nominalMm: 30 },
+          fingersDisengagedFromFrictionFaceMm: { nominalMm: 22 },
+          bearingRestFromBellFaceMm: { nominalMm: 62 },
+          availableTravelMm,
+        },
+      };
+    });
+  it('enough stroke: a note; too little: an error', () => {
+    expect(only(bearing(12), 'clutch.releaseBearing').severity).toBe('note');
+    expect(only(bearing(8), 'clutch.releaseBearing').severity).toBe('error');
+  });
+});
+
+describe('bolt holes near a bore edge and nuts under a flange', () => {
+  it('a bolt hole within 1.2·d0 of the centre bore edge is noted (EN 1993-1-8 e ≥ 1.2·d0)', () => {
+    // T holes (M8, d0 8) at r = 75: a Ø136 bore leaves 7 mm < 9.6 mm; Ø130 leaves 10 mm
+    expect(only(plate((s) => (s.centreBore.diameterMm = 136)), 'layout.boreEdge', 'T1').severity).toBe('note');
+    expect(findings(plate((s) => (s.centreBore.diameterMm = 130)), 'layout.boreEdge')).toHaveLength(0);
+  });
+  it('a stud nut under the other flange asks for an explicit counterbore', () => {
+    const studs = (counterbore?: object) =>
+      plate((s) => {
+        s.transmissionFace.patterns[0] = { id: 'TB', diameterMm: 260, count: 4, startAngleDeg: 0 };
+        s.engineFace.holes[0] = { id: 'E1', patternId: 'EB', index: 0, role: 'stud', fastener: 'M10', ...(counterbore ? { counterbore } : {}) };
+      });
+    expect(only(studs(), 'counterbore.unchecked', 'E1').severity).toBe('warning');
+    expect(findings(studs({ diameterMm: 20, depthMm: 9 }), 'counterbore.unchecked', 'E1')).toHaveLength(0);
+  });
+});
+
 describe('every finding names its rule and source, errors first', () => {
   it('holds on a plate with many problems', () => {
     const bad = plate((s) => {

@@ -18,13 +18,20 @@ afterAll(async () => {
   await browser?.close();
 });
 
+/** Do something that submits a form (a full page load, no script), then wait for the new page. */
+async function submits(page: Page, action: () => Promise<void>) {
+  await page.evaluate(() => ((window as unknown as { __old?: boolean }).__old = true));
+  await action();
+  await page.waitForFunction(() => !(window as unknown as { __old?: boolean }).__old);
+  await page.waitForLoadState('domcontentloaded');
+}
+
 async function signInWithKeyboard(page: Page, email: string, password: string) {
   await page.goto(base + '/sign-in');
   await page.getByLabel('E-mail').fill(email);
   await page.keyboard.press('Tab');
   await page.keyboard.type(password);
-  await page.keyboard.press('Enter');
-  await page.waitForLoadState('domcontentloaded');
+  await submits(page, () => page.keyboard.press('Enter'));
 }
 
 const nav = (page: Page) => page.locator('nav[aria-label="Main"] a').allInnerTexts();
@@ -52,8 +59,8 @@ describe('sign-in in Chromium', () => {
       expect(await page.evaluate(() => document.cookie)).not.toContain('platewright_session');
 
       // Sign out from the header.
-      await page.getByRole('button', { name: 'Sign out' }).click();
-      await page.waitForURL(/\/sign-in\?signed_out=1$/);
+      await submits(page, () => page.getByRole('button', { name: 'Sign out' }).click());
+      expect(page.url()).toBe(`${base}/sign-in?signed_out=1`);
       await expect(page.getByTestId('notice').innerText()).resolves.toBe('You are signed out.');
       expect(await nav(page)).toEqual(['Projects', 'Review', 'Shop', 'Admin']);
       await context.close();
@@ -109,8 +116,7 @@ describe('sign-in in Chromium', () => {
     const email = `e2e-invite-${Date.now()}@example.test`;
     await page.locator('#invite-email').fill(email);
     await page.locator('#invite-role').selectOption('engineer');
-    await page.getByTestId('invite-submit').click();
-    await page.waitForLoadState('domcontentloaded');
+    await submits(page, () => page.getByTestId('invite-submit').click());
     await expect(page.getByTestId('notice').innerText()).resolves.toContain(`Invitation sent to ${email} as engineer`);
     await expect(page.getByTestId('invites-table').innerText()).resolves.toContain(email);
 
@@ -134,8 +140,7 @@ describe('sign-in in Chromium', () => {
     // Back as admin: the newcomer is in the table; deactivate them.
     await page.goto(base + '/admin/users');
     const row = page.locator(`tr[data-email="${email}"]`);
-    await row.getByRole('button', { name: 'Deactivate Oriel Fenwick' }).click();
-    await page.waitForLoadState('domcontentloaded');
+    await submits(page, () => row.getByRole('button', { name: 'Deactivate Oriel Fenwick' }).click());
     await expect(page.getByTestId('notice').innerText()).resolves.toBe('Oriel Fenwick is deactivated and was signed out everywhere.');
     await np.reload();
     expect(await np.getByTestId('who-name').count()).toBe(0);

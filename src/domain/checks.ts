@@ -35,7 +35,7 @@ export interface Finding {
   readonly code: string;
   readonly severity: Severity;
   readonly message: string;
-  readonly featureIds: readonly string[];
+  readonly featureIds: string[];
   /** the rule in a few words, e.g. "edge distance ≥ 1.2·d0" */
   readonly rule: string;
   /** where the rule comes from */
@@ -106,7 +106,7 @@ function finding(
     code,
     severity,
     message,
-    featureIds: Object.freeze([...featureIds]),
+    featureIds: Object.freeze([...featureIds]) as string[],
     rule,
     source,
     ...(at ? { at } : {}),

@@ -18,6 +18,7 @@
 import type { OpenCascadeInstance, TopoDS_Edge, TopoDS_Face, TopoDS_Shape, TopoDS_Wire } from 'replicad-opencascadejs';
 import type { OutlineSegment, PlateProfile } from '../domain/profileTypes';
 import { arcSweepRad, pointInChain } from '../domain/exports/outlineMath';
+import { layoutIsDisjoint } from '../domain/checks';
 import { analyticVolumeMm3 } from './analyticVolume';
 import { describeKernelFailure, PlateBuildError } from './errors';
 import { offsetOutlineInward } from './offsetOutline';
@@ -48,7 +49,7 @@ export interface BuiltPlate {
 export interface BuildOptions {
   /** force a strategy (tests and benchmarks); default: direct when the layout allows, else one-face */
   readonly strategy?: BuildStrategy;
-  /** the domain's verdict on the layout; when false the direct B-rep is not tried */
+  /** the domain's verdict on the layout (default: layoutIsDisjoint(profile)); when false the direct B-rep is not tried */
   readonly layoutIsDisjoint?: boolean;
   /** skip BRepCheck (benchmarks of the raw build only); verification of volume and faces stays */
   readonly skipValidityCheck?: boolean;
@@ -362,6 +363,12 @@ function buildDirect(k: Kit, profile: PlateProfile, columns: readonly VoidColumn
   const faces: TopoDS_Face[] = [...side.faces];
   const bottomInner: TopoDS_Wire[] = [];
   const topInner: TopoDS_Wire[] = [];
+  const floorInner = new Map<string, TopoDS_Wire[]>();
+  const intoFloor = (pocketId: string, w: TopoDS_Wire) => {
+    const list = floorInner.get(pocketId) ?? [];
+    list.push(w);
+    floorInner.set(pocketId, list);
+  };
   const { stacks, pockets } = stacksOf(columns);
   const wireOfEdge = (e: TopoDS_Edge) => k.s.own(k.s.own(new oc.BRepBuilderAPI_MakeWire(e)).Wire());
 
@@ -383,7 +390,8 @@ function buildDirect(k: Kit, profile: PlateProfile, columns: readonly VoidColumn
       const col = st.cols[i]!;
       const rim = rims[i]!;
       if (i === 0) {
-        if (col.z0 <= Z_EPS) bottomInner.push(rim.bottom);
+        if (col.bottomPocket) intoFloor(col.bottomPocket, rim.bottom);
+        else if (col.z0 <= Z_EPS) bottomInner.push(rim.bottom);
         else faces.push(orientedPlanarFace(k, col.z0, true, rim.bottom, []));
       } else {
         const below = st.cols[i - 1]!;
@@ -395,7 +403,8 @@ function buildDirect(k: Kit, profile: PlateProfile, columns: readonly VoidColumn
         );
       }
       if (i === st.cols.length - 1) {
-        if (col.z1 >= t - Z_EPS) topInner.push(rim.top);
+        if (col.topPocket) intoFloor(col.topPocket, rim.top);
+        else if (col.z1 >= t - Z_EPS) topInner.push(rim.top);
         else faces.push(orientedPlanarFace(k, col.z1, false, rim.top, []));
       }
     }
@@ -408,12 +417,13 @@ function buildDirect(k: Kit, profile: PlateProfile, columns: readonly VoidColumn
     const walls = orientBand(k, facesOf(k, k.s.own(mk.Shape())), (q, n) => pointInChain(p.outline, { x: q[0] + n[0] * eps, y: q[1] + n[1] * eps }));
     faces.push(...walls);
     const w1 = k.s.own(oc.TopoDS.Wire(k.s.own(mk.LastShape())));
+    const holesInFloor = floorInner.get(p.featureId) ?? [];
     if (p.z0 <= Z_EPS) {
       bottomInner.push(w0);
-      faces.push(orientedPlanarFace(k, p.z1, false, reversedWire(k, w1), []));
+      faces.push(orientedPlanarFace(k, p.z1, false, reversedWire(k, w1), holesInFloor));
     } else {
       topInner.push(reversedWire(k, w1));
-      faces.push(orientedPlanarFace(k, p.z0, true, w0, []));
+      faces.push(orientedPlanarFace(k, p.z0, true, w0, holesInFloor));
     }
   }
   faces.push(orientedPlanarFace(k, 0, false, side.bottomOuter, bottomInner));
@@ -590,7 +600,9 @@ export function buildPlate(oc: OpenCascadeInstance, profile: PlateProfile, opts:
     const ids = [...new Set(layout.errors.flatMap((e) => e.featureIds))];
     throw new PlateBuildError(first.code, layout.errors.map((e) => e.message).join(' '), ids);
   }
-  const directAllowed = layout.directSafe && opts.layoutIsDisjoint !== false;
+  const domainDisjoint = opts.layoutIsDisjoint ?? layoutIsDisjoint(profile);
+  stage('domainLayout');
+  const directAllowed = layout.directSafe && domainDisjoint;
   const order: BuildStrategy[] = opts.strategy ? [opts.strategy] : directAllowed ? ['direct', 'oneFace'] : ['oneFace'];
   const rejected: string[] = [];
   if (!directAllowed && !opts.strategy) rejected.push(`direct: layout not disjoint (${layout.directBlockers.join(', ') || 'domain check'})`);

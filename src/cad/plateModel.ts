@@ -27,6 +27,10 @@ export interface CircleColumn {
   readonly radiusMm: number;
   readonly z0: number;
   readonly z1: number;
+  /** the column's lower end opens into this pocket's floor (not onto a plate face) */
+  readonly bottomPocket?: string;
+  /** the column's upper end opens into this pocket's floor */
+  readonly topPocket?: string;
 }
 
 export interface PocketColumn {
@@ -46,7 +50,7 @@ export interface LayoutReport {
   readonly columns: readonly VoidColumn[];
   /** fatal: the plate cannot be built as specified */
   readonly errors: readonly PlateBuildError[];
-  /** true when the direct B-rep build applies (no hole inside a pocket, nothing touching) */
+  /** true when the direct B-rep build applies (nothing blind or counterbored inside a pocket) */
   readonly directSafe: boolean;
   /** why the direct B-rep does not apply */
   readonly directBlockers: readonly string[];
@@ -250,6 +254,8 @@ export function analyseLayout(profile: PlateProfile): LayoutReport {
     for (const col of cols) {
       let z0 = col.z0;
       let z1 = col.z1;
+      let bottomPocket: string | undefined;
+      let topPocket: string | undefined;
       for (const p of pocketCols) {
         if (p.z1 <= z0 + EPS || p.z0 >= z1 - EPS) continue; // no common height
         const dp = distanceToChainMm(p.outline, col.center);
@@ -261,14 +267,23 @@ export function analyseLayout(profile: PlateProfile): LayoutReport {
           break;
         }
         if (within) {
-          blockers.push(`${h.id} lies in pocket ${p.featureId}`);
+          // a plain through hole opens into the pocket floor (the direct build handles that);
+          // a blind hole or a counterbore inside a pocket goes to the boolean build
+          if (h.depthMm !== null || col.kind === 'counterbore') blockers.push(`${h.id} (blind or counterbored) lies in pocket ${p.featureId}`);
           // the pocket already removed its height range from this column
-          if (p.z0 <= z0 + EPS) z0 = Math.max(z0, p.z1);
-          else if (p.z1 >= z1 - EPS) z1 = Math.min(z1, p.z0);
+          if (p.z0 <= z0 + EPS) {
+            z0 = Math.max(z0, p.z1);
+            bottomPocket = p.featureId;
+          } else if (p.z1 >= z1 - EPS) {
+            z1 = Math.min(z1, p.z0);
+            topPocket = p.featureId;
+          }
         }
       }
       if (bad) break;
-      if (z1 > z0 + EPS) adjusted.push({ ...col, z0, z1 });
+      if (z1 > z0 + EPS) {
+        adjusted.push({ ...col, z0, z1, ...(bottomPocket ? { bottomPocket } : {}), ...(topPocket ? { topPocket } : {}) });
+      }
     }
     if (bad) continue;
     holeCols.push(adjusted);

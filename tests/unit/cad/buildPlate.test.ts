@@ -14,6 +14,11 @@ import {
   slot,
 } from '../../fixtures/profiles';
 import { startTestKernel } from './kernelForTests';
+import { readFileSync } from 'node:fs';
+import { plateSpecSchema } from '../../../src/domain/spec';
+import { plateProfile } from '../../../src/domain/profile';
+import { layoutIsDisjoint } from '../../../src/domain/checks';
+import { profileVolume } from '../../../src/domain/mass';
 
 let oc: OC;
 beforeAll(async () => {
@@ -169,17 +174,30 @@ describe('buildPlate — volume, bounding box and faces against hand computation
     }
   });
 
-  it('a hole standing in a pocket floor goes to the one-face build and keeps the hand volume', () => {
+  it('a through hole standing in a pocket floor: both strategies keep the hand volume', () => {
     const p: PlateProfile = {
       ...simplePlate,
       holes: [...simplePlate.holes, { id: 'S1', face: 'plate', operation: 'through', center: { x: 0, y: -60 }, diameterMm: 6, depthMm: null, fromSide: 'engine' }],
       pockets: [{ id: 'P1', outline: roundedRectangle(40, 16, 4, 0, -60), depthMm: 3, fromSide: 'engine', areaMm2: rrArea(40, 16, 4) }],
     };
     const hand = analyticVolumeMm3(simplePlate) - rrArea(40, 16, 4) * 3 - PI * 9 * (10 - 3); // hand: pocket, then the hole below its floor
-    const plate = buildPlate(oc, p);
+    expect(buildPlate(oc, p).strategy).toBe('direct');
+    for (const strategy of ['direct', 'oneFace'] as const) {
+      const plate = buildPlate(oc, p, { strategy });
+      try {
+        expect(plate.verification.valid).toBe(true);
+        expect(Math.abs(plate.verification.volumeMm3 - hand) / hand).toBeLessThan(1e-9);
+      } finally {
+        plate.dispose();
+      }
+    }
+    // a blind hole in the pocket floor is left to the boolean build
+    const blind: PlateProfile = { ...p, holes: p.holes.map((h) => (h.id === 'S1' ? { ...h, depthMm: 6 } : h)) };
+    const handBlind = analyticVolumeMm3(simplePlate) - rrArea(40, 16, 4) * 3 - PI * 9 * (6 - 3);
+    const plate = buildPlate(oc, blind);
     try {
       expect(plate.strategy).toBe('oneFace');
-      expect(Math.abs(plate.verification.volumeMm3 - hand) / hand).toBeLessThan(1e-9);
+      expect(Math.abs(plate.verification.volumeMm3 - handBlind) / handBlind).toBeLessThan(1e-9);
     } finally {
       plate.dispose();
     }
@@ -245,5 +263,24 @@ describe('buildPlate — actionable errors', () => {
     expect(checkSolidValidity(oc, box)).toBe(true);
     expect(checkSolidValidity(oc, solid)).toBe(false);
     expect(measureVolumeMm3(oc, box)).toBeCloseTo(1000, 9);
+  });
+});
+
+describe('buildPlate — through the domain: plateProfile(spec) of the shipped templates', () => {
+  it.each(['demo.json', 'sae-j617-3.json', 'blank.json'])('%s builds directly, valid, and matches the domain mass computation', (file) => {
+    const spec = plateSpecSchema.parse(JSON.parse(readFileSync(`templates/plates/${file}`, 'utf8')));
+    const profile = plateProfile(spec);
+    expect(layoutIsDisjoint(profile)).toBe(true);
+    const plate = buildPlate(oc, profile);
+    try {
+      expect(plate.strategy).toBe('direct');
+      expect(plate.verification.valid).toBe(true);
+      // two independent closed forms (ours in src/cad, the domain's profileVolume) and the kernel agree
+      const domain = profileVolume(profile).volumeMm3;
+      expect(Math.abs(plate.verification.volumeMm3 - domain) / domain).toBeLessThan(1e-9);
+      expect(plate.verification.cylindricalFaces).toBe(plate.verification.expectedCylindricalFaces);
+    } finally {
+      plate.dispose();
+    }
   });
 });

@@ -101,8 +101,9 @@ describe('designer → engineer → machinist in Chromium', () => {
     const dxf = new DxfParser().parseSync(readFileSync(path!, 'utf8'))!;
     expect(dxf.header.$INSUNITS).toBe(4); // DXF reference: $INSUNITS 4 = millimetres
     const circles = dxf.entities.filter((x) => x.type === 'CIRCLE').length;
-    const expectedHoles = plateProfile(parsePlateSpec({ ...demoSpec, outline: { ...demoSpec.outline, edgeMarginMm: 14 } })).holes.length;
-    expect(circles).toBe(expectedHoles);
+    const holes = plateProfile(parsePlateSpec({ ...demoSpec, outline: { ...demoSpec.outline, edgeMarginMm: 14 } })).holes;
+    // one CIRCLE per hole, plus one per counterbore (on its own layer)
+    expect(circles).toBe(holes.length + holes.filter((h) => h.counterbore).length);
     // and the machinist cannot open the first, unreleased revision
     const hidden = await m.request.get(`${base}/api/revisions/${rev1}`);
     expect(hidden.status()).toBe(404);

@@ -4,3 +4,10 @@ const WHEN = new Intl.DateTimeFormat('en-GB', { dateStyle: 'long', timeStyle: 's
 export function formatWhen(d: Date | string): string {
   return `${WHEN.format(typeof d === 'string' ? new Date(d) : d)} UTC`;
 }
+
+const SHORT = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit', hourCycle: 'h23', timeZone: 'UTC' });
+
+/** "1 Dec 2026, 21:02 UTC" — for tables. */
+export function formatWhenShort(d: Date | string): string {
+  return `${SHORT.format(typeof d === 'string' ? new Date(d) : d)} UTC`;
+}

@@ -1,4 +1,4 @@
-import { and, asc, eq, ne } from 'drizzle-orm';
+import { and, asc, desc, eq, ne } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { sessions, users, type Role } from '../db/schema';
 import { audit } from '../audit';
@@ -33,7 +33,7 @@ function toSummary(r: { id: string; email: string; name: string; role: Role; act
 }
 
 export async function listUsers(db: Db): Promise<UserSummary[]> {
-  const rows = await db.select(summaryColumns).from(users).orderBy(asc(users.name), asc(users.email));
+  const rows = await db.select(summaryColumns).from(users).orderBy(desc(users.active), asc(users.name), asc(users.email));
   return rows.map(toSummary);
 }
 
@@ -55,7 +55,7 @@ export async function updateUser(db: Db, actor: SessionUser, userId: string, pat
       throw new AuthError(
         409,
         'last_admin',
-        `${before.name} is the last active admin. Make someone else an admin first, then change ${before.name}.`,
+        `${before.name} is the last active admin, so nothing was changed. Make someone else an admin first.`,
         patch.role !== undefined ? { role: 'The shop needs at least one active admin.' } : { active: 'The shop needs at least one active admin.' },
       );
     }

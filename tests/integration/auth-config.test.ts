@@ -1,7 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { execFileSync, spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
+import { eq } from 'drizzle-orm';
 import { closeDb, getDb } from '../../src/server/db/client';
+import { invitations, passwordResetTokens } from '../../src/server/db/schema';
 import { startServer, testAppPort, type RunningServer } from '../support/server';
 import { ApiClient, makeUser, tag } from '../support/auth';
 import { linkIn, waitForMail } from '../support/mail';
@@ -75,5 +77,36 @@ describe('production settings', () => {
       const signIn = await (await fetch(server.baseUrl + '/sign-in')).text();
       expect(signIn).not.toContain('data-testid="demo-sign-ins"');
     });
+  });
+});
+
+describe('when the mail server is down', () => {
+  let server: RunningServer;
+  beforeAll(async () => {
+    server = await startServer(testAppPort(7), { SMTP_URL: 'smtp://127.0.0.1:9' }); // nothing listens there
+  });
+  afterAll(async () => {
+    await server?.stop();
+  });
+
+  it('an invitation answers 502 with the reason and keeps nothing; a reset still answers 202 and logs no token', async () => {
+    const a = await makeUser(getDb(), { role: 'admin', password: PASSWORD });
+    const c = new ApiClient(server.baseUrl);
+    expect((await c.signIn(a.email, PASSWORD)).status).toBe(200);
+    const email = `unreachable-${tag()}@example.test`;
+    const r = await c.post('/api/admin/invites', { email, role: 'designer' });
+    expect(r.status).toBe(502);
+    expect(r.body.error.code).toBe('mail_failed');
+    expect(r.body.error.message).toMatch(/could not be e-mailed: .*Nothing was sent; try again\./);
+    expect(await getDb().select().from(invitations).where(eq(invitations.email, email))).toEqual([]);
+
+    const reset = await new ApiClient(server.baseUrl).post('/api/auth/password-reset', { email: a.email });
+    expect(reset.status).toBe(202);
+    const deadline = Date.now() + 15_000;
+    while (!server.output().includes('password reset e-mail for user') && Date.now() < deadline) await new Promise((res) => setTimeout(res, 100));
+    expect(server.output()).toContain(`password reset e-mail for user ${a.id} not sent`);
+    const [row] = await getDb().select().from(passwordResetTokens).where(eq(passwordResetTokens.userId, a.id));
+    expect(row.tokenHash).toMatch(/^[0-9a-f]{64}$/);
+    expect(server.output()).not.toMatch(/reset-password\/[A-Za-z0-9_-]{43}/);
   });
 });

@@ -21,6 +21,15 @@ export const OUTLINE_LENGTH_TOLERANCE_MM = 1e-9;
 /** Angles closer than this are the same (rad); also the smallest arc kept in a chain. */
 const ANGLE_TOLERANCE_RAD = 1e-12;
 
+/**
+ * A disc sticking out of a larger one by no more than this is merged into it (mm): a nanometre
+ * bump would only give the CAD kernel a sliver edge.
+ */
+export const DISC_MERGE_TOLERANCE_MM = 1e-6;
+
+/** A turn this small either way counts as going straight on (rad). */
+const STRAIGHT_AHEAD_RAD = 1e-9;
+
 /** A circle that an outline must enclose: a feature grown by its margin. */
 export interface Disc {
   readonly center: Point2;
@@ -243,20 +252,22 @@ export function circleOutline(center: Point2, radiusMm: number): OutlineSegment[
 // Convex hull of discs
 // ---------------------------------------------------------------------------------------------
 
-/** Discs left after dropping every disc that lies inside another one (duplicates: first kept). */
+/**
+ * Discs left after dropping every disc that lies inside another one. A disc that sticks out of a
+ * larger one by no more than DISC_MERGE_TOLERANCE_MM is merged into it: the larger disc grows by
+ * that bit so it still encloses both — no sliver edge, and nothing pokes out.
+ */
 function outermostDiscs(discs: readonly Disc[]): Disc[] {
-  const kept: Disc[] = [];
-  discs.forEach((d, i) => {
-    const inside = discs.some((o, j) => {
-      if (j === i) return false;
-      const gap = Math.hypot(d.center.x - o.center.x, d.center.y - o.center.y) + d.radiusMm - o.radiusMm;
-      if (gap > OUTLINE_LENGTH_TOLERANCE_MM) return false;
-      // equal discs: keep the first of them
-      const same = Math.abs(d.radiusMm - o.radiusMm) <= OUTLINE_LENGTH_TOLERANCE_MM && gap >= -OUTLINE_LENGTH_TOLERANCE_MM;
-      return same ? j < i : true;
-    });
-    if (!inside) kept.push(d);
-  });
+  const order = discs.map((d, i) => ({ d, i })).sort((a, b) => b.d.radiusMm - a.d.radiusMm || a.i - b.i);
+  const kept: { center: Point2; radiusMm: number }[] = [];
+  for (const { d } of order) {
+    const host = kept.find((o) => Math.hypot(d.center.x - o.center.x, d.center.y - o.center.y) + d.radiusMm - o.radiusMm <= DISC_MERGE_TOLERANCE_MM);
+    if (host) {
+      host.radiusMm = Math.max(host.radiusMm, Math.hypot(d.center.x - host.center.x, d.center.y - host.center.y) + d.radiusMm);
+    } else {
+      kept.push({ center: d.center, radiusMm: d.radiusMm });
+    }
+  }
   return kept;
 }
 
@@ -306,15 +317,13 @@ export function hullOfDiscs(discs: readonly Disc[]): OutlineSegment[] {
     return circleOutline(d.center, d.radiusMm);
   }
 
-  // start at the lowest point (leftmost among ties), heading +x
+  // start at the lowest point (leftmost among exact ties), heading +x: that point is on the hull
   let startIndex = 0;
   hull.forEach((d, i) => {
     const s = hull[startIndex]!;
     const low = d.center.y - d.radiusMm;
     const best = s.center.y - s.radiusMm;
-    if (low < best - OUTLINE_LENGTH_TOLERANCE_MM || (Math.abs(low - best) <= OUTLINE_LENGTH_TOLERANCE_MM && d.center.x < s.center.x)) {
-      startIndex = i;
-    }
+    if (low < best || (low === best && d.center.x < s.center.x)) startIndex = i;
   });
   const start = hull[startIndex]!;
   const startPoint = point(start.center.x, start.center.y - start.radiusMm);
@@ -343,8 +352,9 @@ export function hullOfDiscs(discs: readonly Disc[]): OutlineSegment[] {
     hull.forEach((d, j) => {
       if (j === current) return;
       const psi = tangentDirectionRad(c, d);
-      let turn = normaliseRad(psi - headingRad);
-      if (turn > TWO_PI - ANGLE_TOLERANCE_RAD) turn = 0;
+      // a disc straight ahead may come out a hair to the right: that is a turn of 0, not of 2π
+      // (safe: a disc that survives the 1e-9 mm containment test needs a turn far above this)
+      const turn = normaliseRad(psi - headingRad + STRAIGHT_AHEAD_RAD) - STRAIGHT_AHEAD_RAD;
       const p = tangentPoint(c, psi);
       const q = tangentPoint(d, psi);
       const length = Math.hypot(q.x - p.x, q.y - p.y);
@@ -355,15 +365,19 @@ export function hullOfDiscs(discs: readonly Disc[]): OutlineSegment[] {
         bestPsi = psi;
       }
     });
-    if (current === startIndex && step > 0 && turnedRad + bestTurn >= TWO_PI - ANGLE_TOLERANCE_RAD) {
-      addArc(c, at, startPoint, TWO_PI - turnedRad);
+    if (step > 0 && turnedRad + bestTurn >= TWO_PI - STRAIGHT_AHEAD_RAD) {
+      // heading +x again: roll down to this disc's lowest point, then along the bottom line to the
+      // start (the same point when this is the start disc; a line when the bottom is shared)
+      const bottom = c === start ? startPoint : tangentPoint(c, 0);
+      addArc(c, at, bottom, TWO_PI - turnedRad);
+      if (Math.hypot(startPoint.x - bottom.x, startPoint.y - bottom.y) > OUTLINE_LENGTH_TOLERANCE_MM) segments.push(line(bottom, startPoint));
       break;
     }
     const depart = tangentPoint(c, bestPsi);
-    addArc(c, at, depart, bestTurn);
+    addArc(c, at, depart, Math.max(0, bestTurn));
     const arrive = tangentPoint(hull[next]!, bestPsi);
     segments.push(line(depart, arrive));
-    turnedRad += bestTurn;
+    turnedRad += Math.max(0, bestTurn);
     headingRad = bestPsi;
     at = arrive;
     current = next;
@@ -372,11 +386,22 @@ export function hullOfDiscs(discs: readonly Disc[]): OutlineSegment[] {
   return closeChain(mergeArcAcrossStart(segments));
 }
 
-/** The chain starts at the lowest point, often inside an arc: join that arc's two halves. */
+/**
+ * The chain starts at the lowest point, often inside an arc or a bottom line: join the two halves
+ * of that arc (or line) so no extra vertex is left there.
+ */
 function mergeArcAcrossStart(segments: OutlineSegment[]): OutlineSegment[] {
   if (segments.length < 3) return segments;
   const first = segments[0]!;
   const last = segments[segments.length - 1]!;
+  if (first.kind === 'line' && last.kind === 'line') {
+    const a = segmentTangent(last, 'end');
+    const b = segmentTangent(first, 'start');
+    if (Math.abs(a.x * b.y - a.y * b.x) <= 1e-12 && a.x * b.x + a.y * b.y > 0) {
+      return [line(last.start, first.end), ...segments.slice(1, -1)];
+    }
+    return segments;
+  }
   if (first.kind !== 'arc' || last.kind !== 'arc') return segments;
   const sameCircle =
     Math.hypot(first.center.x - last.center.x, first.center.y - last.center.y) <= OUTLINE_LENGTH_TOLERANCE_MM &&

@@ -199,6 +199,26 @@ describe('automatic outline (properties)', () => {
     );
   });
 
+  it('survives degenerate layouts: repeated, nested, collinear and nanometre-noisy discs', () => {
+    const grid = fc.array(fc.record({ x: fc.integer({ min: -3, max: 3 }), y: fc.integer({ min: -3, max: 3 }), r: fc.integer({ min: 1, max: 3 }) }), {
+      minLength: 1,
+      maxLength: 10,
+    });
+    const noise = fc.array(fc.double({ min: -1e-9, max: 1e-9, noNaN: true }), { minLength: 30, maxLength: 30 });
+    fc.assert(
+      fc.property(grid, noise, (ds, n) => {
+        const features = ds.map((d, i) => disc(d.x * 10 + n[i % 30]!, d.y * 10 + n[(i + 7) % 30]!, d.r * 5 + n[(i + 13) % 30]!));
+        const chain = hullOfDiscs(features);
+        expectClosed(chain);
+        expect(outlineSignedAreaMm2(chain)).toBeGreaterThan(0);
+        expect(maxKinkRad(chain)).toBeLessThan(1e-6);
+        // nearly-equal discs are merged into one that encloses both
+        for (const f of features) expect(distanceToOutline(chain, f.center)).toBeGreaterThanOrEqual(f.radiusMm - 1e-9);
+      }),
+      { numRuns: 3000 },
+    );
+  });
+
   it('area agrees with the dense-sampling estimate', () => {
     fc.assert(
       fc.property(inputArb, ({ discs, margin, corner }) => {

@@ -1,0 +1,276 @@
+import { memo, useCallback, useEffect, useMemo, useRef, useState, type PointerEvent as RPointerEvent, type WheelEvent as RWheelEvent } from 'react';
+import type { Finding, PlateProfile, ProfileHole, PlateSpecInput } from '~/domain';
+import { toPlateCoordinates } from '~/domain/profile';
+import { showLength, type DisplayUnits } from '~/domain/editor/units';
+import { outlinePath } from '~/components/PlateDrawing';
+
+/** Engine face holes: ink circles on white; transmission face: brass, dashed ring; plate features: steel blue. */
+export const FACE_LOOK = {
+  engine: { stroke: '#1d3a4a', fill: '#ffffff', ring: undefined, label: 'Engine face (holes from the block)' },
+  transmission: { stroke: '#9a6a10', fill: '#fff3d6', ring: '4 2.5', label: 'Transmission face (holes from the bell housing)' },
+  plate: { stroke: '#4f8199', fill: '#f4f9fb', ring: undefined, label: 'Plate features (centre bore, starter)' },
+} as const;
+
+const SEV_COLOUR = { error: '#c2372b', warning: '#c98a00', note: '#3f6fb0' } as const;
+
+interface Circle {
+  readonly key: string;
+  readonly face: 'engine' | 'transmission';
+  readonly cx: number;
+  readonly cy: number;
+  readonly r: number;
+}
+
+/** Bolt circles of both faces and the ring-gear pitch circle, in plate coordinates. */
+export function guideCircles(doc: PlateSpecInput): { bolt: Circle[]; ringPitchR: number | null; ringCentre: { x: number; y: number } | null } {
+  const bolt: Circle[] = [];
+  for (const [key, face] of [['engineFace', 'engine'], ['transmissionFace', 'transmission']] as const) {
+    const f = doc[key];
+    for (const p of f?.patterns ?? []) {
+      if (!(p.diameterMm > 0)) continue;
+      const c = toPlateCoordinates({ x: p.centerX ?? 0, y: p.centerY ?? 0 }, f.viewedFrom);
+      bolt.push({ key: `${key}:${p.id}`, face, cx: c.x, cy: c.y, r: p.diameterMm / 2 });
+    }
+  }
+  let ringPitchR: number | null = null;
+  const g = doc.starter?.ringGear;
+  if (g && g.teeth > 0) {
+    const m = g.moduleMm ?? (g.diametralPitch ? 25.4 / g.diametralPitch : undefined);
+    if (m && m > 0) ringPitchR = (g.teeth * m) / 2;
+  }
+  return { bolt, ringPitchR, ringCentre: ringPitchR ? { x: 0, y: 0 } : null };
+}
+
+interface Props {
+  profile: PlateProfile;
+  doc: PlateSpecInput;
+  findings: readonly Finding[];
+  units: DisplayUnits;
+  hovered: string | null;
+  selected: readonly string[];
+  selectedFinding: number | null;
+  onHover(id: string | null): void;
+  onSelect(ids: string[]): void;
+  stale: boolean;
+}
+
+type View = { x: number; y: number; w: number; h: number };
+
+function fitView(profile: PlateProfile, extra = 0): View {
+  const b = profile.bbox;
+  const pad = Math.max(b.maxX - b.minX, b.maxY - b.minY) * 0.08 + 8 + extra;
+  return { x: b.minX - pad, y: -b.maxY - pad, w: b.maxX - b.minX + 2 * pad, h: b.maxY - b.minY + 2 * pad };
+}
+
+function EditorDrawingInner({ profile, doc, findings, units, hovered, selected, selectedFinding, onHover, onSelect, stale }: Props) {
+  const svgRef = useRef<SVGSVGElement>(null);
+  const [view, setView] = useState<View | null>(null);
+  const drag = useRef<{ px: number; py: number; v: View; moved: boolean } | null>(null);
+  const fitted = useMemo(() => fitView(profile), [profile]);
+  const v = view ?? fitted;
+  const guides = useMemo(() => guideCircles(doc), [doc]);
+  const size = Math.max(v.w, v.h);
+  // stroke widths and text sizes follow the zoom so lines stay crisp and labels readable
+  const px = size / 900;
+
+  const toSvg = useCallback((clientX: number, clientY: number, vv: View) => {
+    const el = svgRef.current!;
+    const r = el.getBoundingClientRect();
+    const scale = Math.max(vv.w / r.width, vv.h / r.height);
+    const ox = vv.x + vv.w / 2 - (r.width * scale) / 2;
+    const oy = vv.y + vv.h / 2 - (r.height * scale) / 2;
+    return { x: ox + (clientX - r.left) * scale, y: oy + (clientY - r.top) * scale, scale };
+  }, []);
+
+  const onWheel = (e: RWheelEvent<SVGSVGElement>) => {
+    const p = toSvg(e.clientX, e.clientY, v);
+    const k = Math.exp(e.deltaY * 0.0015);
+    const w = Math.min(Math.max(v.w * k, 10), fitted.w * 8);
+    const kk = w / v.w;
+    setView({ x: p.x - (p.x - v.x) * kk, y: p.y - (p.y - v.y) * kk, w, h: v.h * kk });
+  };
+  useEffect(() => {
+    const el = svgRef.current;
+    if (!el) return;
+    const stop = (e: WheelEvent) => e.preventDefault();
+    el.addEventListener('wheel', stop, { passive: false });
+    return () => el.removeEventListener('wheel', stop);
+  }, []);
+  const onPointerDown = (e: RPointerEvent<SVGSVGElement>) => {
+    drag.current = { px: e.clientX, py: e.clientY, v, moved: false };
+  };
+  const onPointerMove = (e: RPointerEvent<SVGSVGElement>) => {
+    const d = drag.current;
+    if (!d) return;
+    const dx = e.clientX - d.px;
+    const dy = e.clientY - d.py;
+    if (!d.moved && Math.hypot(dx, dy) < 4) return;
+    if (!d.moved) (e.currentTarget as Element).setPointerCapture?.(e.pointerId);
+    d.moved = true;
+    const { scale } = toSvg(0, 0, d.v);
+    setView({ ...d.v, x: d.v.x - dx * scale, y: d.v.y - dy * scale });
+  };
+  const onPointerUp = (e: RPointerEvent<SVGSVGElement>) => {
+    const d = drag.current;
+    drag.current = null;
+    if (d && !d.moved) {
+      const target = (e.target as Element).closest('[data-feature]');
+      onSelect(target ? [target.getAttribute('data-feature')!] : []);
+    }
+  };
+
+  const sel = new Set(selected);
+  const flagged = new Map<string, keyof typeof SEV_COLOUR>();
+  for (const f of findings) {
+    for (const id of f.featureIds) {
+      const prev = flagged.get(id);
+      if (!prev || (prev !== 'error' && f.severity === 'error')) flagged.set(id, f.severity);
+    }
+  }
+  const selHole = profile.holes.find((h) => h.id === (selected[0] ?? hovered));
+
+  return (
+    <div className="relative h-full min-h-0 w-full">
+      <svg
+        ref={svgRef}
+        data-testid="plate-drawing"
+        role="img"
+        aria-label="Plate drawing, seen from the transmission side"
+        viewBox={`${v.x} ${v.y} ${v.w} ${v.h}`}
+        className="h-full w-full cursor-grab touch-none select-none bg-white active:cursor-grabbing"
+        onWheel={onWheel}
+        onPointerDown={onPointerDown}
+        onPointerMove={onPointerMove}
+        onPointerUp={onPointerUp}
+        onPointerLeave={() => onHover(null)}
+      >
+        <path data-testid="outline" d={outlinePath(profile.outline)} fill={stale ? '#eef0f1' : '#e3eef3'} stroke="#1d3a4a" strokeWidth={2 * px} />
+        {profile.edgeChamferMm > 0 && <path d={outlinePath(profile.outline)} fill="none" stroke="#8fb7c9" strokeWidth={px} transform="" strokeDasharray={`${6 * px} ${4 * px}`} />}
+        {profile.pockets.map((p) => (
+          <path key={p.id} data-feature={p.id} d={outlinePath(p.outline)} fill="#cbdce4" stroke="#4f8199" strokeWidth={1.2 * px} strokeDasharray={`${5 * px} ${3 * px}`} />
+        ))}
+        {guides.bolt.map((c) => (
+          <circle key={c.key} cx={c.cx} cy={-c.cy} r={c.r} fill="none" stroke={FACE_LOOK[c.face].stroke} strokeOpacity={0.45} strokeWidth={px} strokeDasharray={`${14 * px} ${4 * px} ${2 * px} ${4 * px}`} />
+        ))}
+        {guides.ringPitchR && (
+          <circle data-testid="ring-pitch" cx={0} cy={0} r={guides.ringPitchR} fill="none" stroke="#7a4ab0" strokeOpacity={0.55} strokeWidth={px} strokeDasharray={`${3 * px} ${3 * px}`} />
+        )}
+        {/* centre axis and datum */}
+        <g stroke="#c2372b" strokeWidth={1.2 * px}>
+          <line x1={-size * 0.07} y1={0} x2={size * 0.07} y2={0} />
+          <line x1={0} y1={-size * 0.07} x2={0} y2={size * 0.07} />
+        </g>
+        <text x={size * 0.012} y={size * 0.03} fontSize={13 * px} fill="#c2372b" fontWeight={600}>
+          DATUM A · crank axis (0, 0)
+        </text>
+        {profile.holes.map((h) => (
+          <HoleMark key={h.id} h={h} px={px} hovered={hovered === h.id} selected={sel.has(h.id)} flag={flagged.get(h.id)} onHover={onHover} />
+        ))}
+        {findings.map((f, i) => (f.at ? <FindingMark key={i} f={f} px={px} active={selectedFinding === i} /> : null))}
+        {selHole && <Dimension h={selHole} px={px} units={units} />}
+      </svg>
+      <div className="pointer-events-none absolute left-2 top-2 rounded bg-white/90 px-2 py-1 text-[13px] leading-5 text-plate-900 shadow-sm" data-testid="legend">
+        <LegendRow face="engine" />
+        <LegendRow face="transmission" />
+        <LegendRow face="plate" />
+        <div className="flex items-center gap-2"><span className="inline-block h-0.5 w-5 bg-finding-error" /> finding (ligament, edge …)</div>
+      </div>
+      <div className="absolute bottom-2 right-2 flex gap-1">
+        <button type="button" className="rounded border border-blast-200 bg-white px-2 py-1 text-sm hover:bg-plate-100" onClick={() => setView(null)} title="Fit the plate in view">Fit</button>
+      </div>
+      {stale && (
+        <p className="absolute inset-x-0 bottom-2 mx-auto w-fit rounded bg-finding-warning px-3 py-1 text-sm font-semibold text-white" role="status">
+          Showing the last plate that could be laid out — fix the marked field to update it.
+        </p>
+      )}
+      <p className="pointer-events-none absolute bottom-2 left-2 text-xs text-plate-500">seen from the transmission side · +X right, +Y up · wheel: zoom, drag: pan</p>
+    </div>
+  );
+}
+
+function LegendRow({ face }: { face: keyof typeof FACE_LOOK }) {
+  const l = FACE_LOOK[face];
+  return (
+    <div className="flex items-center gap-2">
+      <svg width="16" height="16" viewBox="-8 -8 16 16" aria-hidden="true">
+        <circle r="5.5" fill={l.fill} stroke={l.stroke} strokeWidth="1.6" />
+        {l.ring && <circle r="7.3" fill="none" stroke={l.stroke} strokeWidth="1" strokeDasharray="2 1.5" />}
+      </svg>
+      {l.label}
+    </div>
+  );
+}
+
+const HoleMark = memo(function HoleMark({ h, px, hovered, selected, flag, onHover }: { h: ProfileHole; px: number; hovered: boolean; selected: boolean; flag?: keyof typeof SEV_COLOUR; onHover(id: string | null): void }) {
+  const look = FACE_LOOK[h.face];
+  const r = h.diameterMm / 2;
+  const hot = hovered || selected;
+  return (
+    <g data-feature={h.id} data-face={h.face} data-flag={flag} onPointerEnter={() => onHover(h.id)} onPointerLeave={() => onHover(null)} className="cursor-pointer">
+      {h.counterbore && <circle cx={h.center.x} cy={-h.center.y} r={h.counterbore.diameterMm / 2} fill="none" stroke={look.stroke} strokeWidth={px} strokeDasharray={`${3 * px} ${2 * px}`} />}
+      <circle cx={h.center.x} cy={-h.center.y} r={r} fill={hot ? '#f2b544' : look.fill} stroke={flag ? SEV_COLOUR[flag] : look.stroke} strokeWidth={(hot ? 3 : flag ? 2.4 : 1.6) * px} />
+      {look.ring && <circle cx={h.center.x} cy={-h.center.y} r={r + 3 * px} fill="none" stroke={look.stroke} strokeWidth={px} strokeDasharray={look.ring.split(' ').map((n) => Number(n) * px).join(' ')} />}
+      {h.operation === 'dowelReam' && (
+        <g stroke={look.stroke} strokeWidth={px}>
+          <line x1={h.center.x - r * 0.6} y1={-h.center.y} x2={h.center.x + r * 0.6} y2={-h.center.y} />
+          <line x1={h.center.x} y1={-h.center.y - r * 0.6} x2={h.center.x} y2={-h.center.y + r * 0.6} />
+        </g>
+      )}
+      <text x={h.center.x + r + 3 * px} y={-h.center.y - r - 1 * px} fontSize={(hot ? 15 : 12) * px} fontWeight={hot ? 700 : 600} fill={look.stroke} stroke="#ffffff" strokeWidth={3 * px} paintOrder="stroke">
+        {h.id}
+      </text>
+    </g>
+  );
+});
+
+function FindingMark({ f, px, active }: { f: Finding; px: number; active: boolean }) {
+  const c = SEV_COLOUR[f.severity];
+  const at = f.at!;
+  const w = (active ? 5 : 3.2) * px;
+  if ('from' in at) {
+    return (
+      <g data-finding={f.code} data-severity={f.severity} pointerEvents="none">
+        <line x1={at.from.x} y1={-at.from.y} x2={at.to.x} y2={-at.to.y} stroke={c} strokeWidth={w} strokeLinecap="round" />
+        <circle cx={at.from.x} cy={-at.from.y} r={3 * px} fill={c} />
+        <circle cx={at.to.x} cy={-at.to.y} r={3 * px} fill={c} />
+      </g>
+    );
+  }
+  return (
+    <g data-finding={f.code} data-severity={f.severity} pointerEvents="none">
+      <circle cx={at.x} cy={-at.y} r={9 * px} fill="none" stroke={c} strokeWidth={w} />
+      <line x1={at.x - 13 * px} y1={-at.y} x2={at.x + 13 * px} y2={-at.y} stroke={c} strokeWidth={px} />
+    </g>
+  );
+}
+
+/** The selected feature: diameter and position from the datum, as a machinist reads them. */
+function Dimension({ h, px, units }: { h: ProfileHole; px: number; units: DisplayUnits }) {
+  const { x, y } = h.center;
+  const r = h.diameterMm / 2;
+  const fs = 14 * px;
+  const lines = [
+    `${h.id}  ⌀${showLength(h.diameterMm, units)}${h.thread ? `  ${h.thread}` : ''}${h.fit ? `  ${h.fit.designation}` : ''}`,
+    `X ${showLength(x, units)}   Y ${showLength(y, units)}`,
+  ];
+  if (h.counterbore) lines.push(`c'bore ⌀${showLength(h.counterbore.diameterMm, units)} × ${showLength(h.counterbore.depthMm, units)} ${h.counterbore.fromSide} side`);
+  const tx = x + r + 24 * px;
+  const ty = -y - r - 24 * px;
+  return (
+    <g data-testid="dimension" pointerEvents="none">
+      <g stroke="#10232d" strokeWidth={0.9 * px} strokeDasharray={`${4 * px} ${3 * px}`} opacity={0.7}>
+        <line x1={0} y1={-y} x2={x} y2={-y} />
+        <line x1={x} y1={0} x2={x} y2={-y} />
+      </g>
+      <line x1={x + r * 0.7} y1={-y - r * 0.7} x2={tx} y2={ty + fs * 0.3} stroke="#10232d" strokeWidth={px} />
+      <rect x={tx - 4 * px} y={ty - fs * 1.1} width={fs * 0.56 * Math.max(...lines.map((l) => l.length)) + 8 * px} height={fs * 1.3 * lines.length + 6 * px} fill="#10232d" rx={3 * px} />
+      {lines.map((l, i) => (
+        <text key={i} x={tx} y={ty + i * fs * 1.3} fontSize={fs} fill="#ffffff" fontFamily="ui-monospace, monospace">
+          {l}
+        </text>
+      ))}
+    </g>
+  );
+}
+
+export const EditorDrawing = memo(EditorDrawingInner);

@@ -308,7 +308,7 @@ function orientedPlanarFace(k: Kit, z: number, up: boolean, outer: TopoDS_Wire, 
 }
 
 /** The outer side of the plate as outward faces, plus the outer wires of the two plate faces (oriented for them). */
-function directSideWall(k: Kit, profile: PlateProfile): { faces: TopoDS_Face[]; bottomOuter: TopoDS_Wire; topOuter: TopoDS_Wire } {
+function directSideWall(k: Kit, profile: PlateProfile, stage: Stage = () => {}): { faces: TopoDS_Face[]; bottomOuter: TopoDS_Wire; topOuter: TopoDS_Wire } {
   const oc = k.oc;
   const t = profile.thicknessMm;
   const c = profile.edgeChamferMm;
@@ -337,10 +337,14 @@ function directSideWall(k: Kit, profile: PlateProfile): { faces: TopoDS_Face[]; 
     const inset = offsetOutlineInward(profile.outline, c);
     const w0 = k.chainWire(inset, 0);
     const w1 = k.chainWire(profile.outline, c);
-    ruled(w0, w1, true);
-    const w2 = wallFrom(w1, t - 2 * c);
     const w3 = k.chainWire(inset, t);
+    stage('side.wires');
+    ruled(w0, w1, true);
+    stage('side.ruled1');
+    const w2 = wallFrom(w1, t - 2 * c);
+    stage('side.wall');
     ruled(w2, w3, false);
+    stage('side.ruled2');
     return { faces, bottomOuter: reversedWire(k, w0), topOuter: w3 };
   }
   const w0 = k.chainWire(profile.outline, 0);
@@ -357,8 +361,7 @@ function directSideWall(k: Kit, profile: PlateProfile): { faces: TopoDS_Face[]; 
 function buildDirect(k: Kit, profile: PlateProfile, columns: readonly VoidColumn[], stage: Stage): TopoDS_Shape {
   const oc = k.oc;
   const t = profile.thicknessMm;
-  const side = directSideWall(k, profile);
-  stage('sideWall');
+  const side = directSideWall(k, profile, stage);
 
   const faces: TopoDS_Face[] = [...side.faces];
   const bottomInner: TopoDS_Wire[] = [];
@@ -409,6 +412,7 @@ function buildDirect(k: Kit, profile: PlateProfile, columns: readonly VoidColumn
       }
     }
   }
+  stage('columns');
   for (const p of pockets) {
     const w0 = k.chainWire(p.outline, p.z0);
     const vec = k.s.own(new oc.gp_Vec(0, 0, p.z1 - p.z0));
@@ -426,9 +430,10 @@ function buildDirect(k: Kit, profile: PlateProfile, columns: readonly VoidColumn
       faces.push(orientedPlanarFace(k, p.z0, true, w0, holesInFloor));
     }
   }
+  stage('pockets');
   faces.push(orientedPlanarFace(k, 0, false, side.bottomOuter, bottomInner));
   faces.push(orientedPlanarFace(k, t, true, side.topOuter, topInner));
-  stage('faces');
+  stage('plateFaces');
 
   const builder = k.s.own(new oc.TopoDS_Builder());
   const shell = k.s.own(new oc.TopoDS_Shell());
@@ -487,11 +492,14 @@ function countCylindricalFaces(oc: OpenCascadeInstance, s: Scope, shape: TopoDS_
   let n = 0;
   const ex = s.own(new oc.TopExp_Explorer(shape, oc.TopAbs_ShapeEnum.TopAbs_FACE, oc.TopAbs_ShapeEnum.TopAbs_SHAPE));
   for (; ex.More(); ex.Next()) {
-    const f = oc.TopoDS.Face(ex.Current());
+    // every shape handed out by the kernel holds the solid alive until deleted
+    const cur = ex.Current();
+    const f = oc.TopoDS.Face(cur);
     const ad = new oc.BRepAdaptor_Surface(f, true);
     if (ad.GetType() === oc.GeomAbs_SurfaceType.GeomAbs_Cylinder) n++;
     ad.delete();
     f.delete();
+    cur.delete();
   }
   return n;
 }
@@ -654,6 +662,23 @@ export function buildPlate(oc: OpenCascadeInstance, profile: PlateProfile, opts:
     `The plate could not be built into a solid that matches its drawing, so it is not shown or exported. ` +
       `Check the features near the outline, pockets and counterbores. Details: ${rejected.join('; ')}`,
   );
+}
+
+/**
+ * The construction alone, WITHOUT verification — for benchmarks that time the kernel work the
+ * way a native CAD script would. Never show or export its result: use buildPlate.
+ */
+export function constructPlateSolidUnverified(oc: OpenCascadeInstance, profile: PlateProfile, strategy: BuildStrategy): TopoDS_Shape {
+  const layout = analyseLayout(profile);
+  if (layout.errors.length > 0) throw layout.errors[0]!;
+  const scope = new Scope();
+  try {
+    const kit = new Kit(oc, scope);
+    const built = strategy === 'direct' ? buildDirect(kit, profile, layout.columns, () => {}) : buildOneFace(kit, profile, layout.columns);
+    return scope.release(built);
+  } finally {
+    scope.free();
+  }
 }
 
 /** Keeps the last built plate per kernel instance, keyed by the profile's canonical JSON. */

@@ -3,7 +3,7 @@ import type { PlateProfile } from '../../../src/domain/profileTypes';
 import { buildPlate, checkSolidValidity, measureVolumeMm3 } from '../../../src/cad/buildPlate';
 import { analyticVolumeMm3 } from '../../../src/cad/analyticVolume';
 import { describeKernelFailure, PlateBuildError } from '../../../src/cad/errors';
-import type { OC } from '../../../src/cad/kernel.node';
+import type { OC } from '../../../src/cad/kernel.node.ts';
 import {
   chamferBlock,
   counterboreThroughOutline,

@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { buildPlate } from '../../../src/cad/buildPlate';
 import { meshTransferables, plateMesh } from '../../../src/cad/mesh';
-import type { OC } from '../../../src/cad/kernel.node';
+import type { OC } from '../../../src/cad/kernel.node.ts';
 import { referencePlate } from '../../fixtures/profiles';
 import { startTestKernel } from './kernelForTests';
 

@@ -2,7 +2,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { buildPlate, expectedCylindricalFaces, measureVolumeMm3, verifyPlate } from '../../../src/cad/buildPlate';
 import { analyseLayout } from '../../../src/cad/plateModel';
 import { plateStep, readStep, stepProductName } from '../../../src/cad/step';
-import type { OC } from '../../../src/cad/kernel.node';
+import type { OC } from '../../../src/cad/kernel.node.ts';
 import { referencePlate } from '../../fixtures/profiles';
 import { startTestKernel } from './kernelForTests';
 

@@ -1,7 +1,7 @@
-import { and, count, desc, eq, gt, min } from 'drizzle-orm';
+import { and, count, desc, eq, gt, lt, min } from 'drizzle-orm';
 import { randomBytes } from 'node:crypto';
 import type { Db } from '../db/client';
-import { signInAttempts, users } from '../db/schema';
+import { sessions, signInAttempts, users } from '../db/schema';
 import { audit } from '../audit';
 import { AuthError } from './errors';
 import { hashPassword, verifyPassword } from './password';
@@ -18,6 +18,15 @@ let dummyHash: Promise<string> | undefined;
 function dummy(): Promise<string> {
   dummyHash ??= hashPassword(randomBytes(16).toString('hex'));
   return dummyHash;
+}
+
+let lastPrune = 0;
+/** At most hourly: forget attempts older than a day and sessions past their expiry. */
+async function prune(db: Db, now: Date): Promise<void> {
+  if (now.getTime() - lastPrune < 3600_000) return;
+  lastPrune = now.getTime();
+  await db.delete(signInAttempts).where(lt(signInAttempts.at, new Date(now.getTime() - 24 * 3600_000)));
+  await db.delete(sessions).where(lt(sessions.expiresAt, now));
 }
 
 /** Failed attempts for this address in the window, counting only those after its last success. */
@@ -44,6 +53,7 @@ async function recentFailures(db: Db, email: string, now: Date): Promise<{ failu
 export async function signIn(db: Db, input: { email: string; password: string; ip?: string | null }): Promise<SessionUser> {
   const email = input.email;
   const now = new Date();
+  await prune(db, now);
   const { failures, oldest } = await recentFailures(db, email, now);
   const [user] = await db.select().from(users).where(eq(users.email, email)).limit(1);
   if (failures >= MAX_FAILED_SIGN_INS) {

@@ -18,6 +18,7 @@ if [ "$MAIL_FAKE_PORT" = 2527 ]; then MAIL_FAKE_DIR_DEFAULT="$ROOT/.data/test-ma
 export MAIL_FAKE_DIR="${TEST_MAIL_FAKE_DIR:-$MAIL_FAKE_DIR_DEFAULT}"
 export SMTP_URL="smtp://127.0.0.1:$MAIL_FAKE_PORT"
 unset APP_URL
+export UPLOAD_DIR="${TEST_UPLOAD_DIR:-$ROOT/.data/test-uploads}"
 
 bash scripts/prepare.sh --with-browser
 

@@ -6,9 +6,9 @@ import { outlinePath } from '~/components/PlateDrawing';
 
 /** Engine face holes: ink circles on white; transmission face: brass, dashed ring; plate features: steel blue. */
 export const FACE_LOOK = {
-  engine: { stroke: '#1d3a4a', fill: '#ffffff', ring: undefined, label: 'Engine face (holes from the block)' },
-  transmission: { stroke: '#9a6a10', fill: '#fff3d6', ring: '4 2.5', label: 'Transmission face (holes from the bell housing)' },
-  plate: { stroke: '#4f8199', fill: '#f4f9fb', ring: undefined, label: 'Plate features (centre bore, starter)' },
+  engine: { stroke: '#1d3a4a', fill: '#ffffff', ring: undefined, label: 'Engine face' },
+  transmission: { stroke: '#9a6a10', fill: '#fff3d6', ring: '4 2.5', label: 'Transmission face' },
+  plate: { stroke: '#4f8199', fill: '#f4f9fb', ring: undefined, label: 'Plate (bore, starter)' },
 } as const;
 
 const SEV_COLOUR = { error: '#c2372b', warning: '#c98a00', note: '#3f6fb0' } as const;
@@ -59,7 +59,7 @@ type View = { x: number; y: number; w: number; h: number };
 function fitView(profile: PlateProfile, extra = 0): View {
   const b = profile.bbox;
   const pad = Math.max(b.maxX - b.minX, b.maxY - b.minY) * 0.08 + 8 + extra;
-  return { x: b.minX - pad, y: -b.maxY - pad, w: b.maxX - b.minX + 2 * pad, h: b.maxY - b.minY + 2 * pad };
+  return { x: b.minX - pad, y: -b.maxY - pad, w: b.maxX - b.minX + 2 * pad, h: b.maxY - b.minY + 2.6 * pad };
 }
 
 function EditorDrawingInner({ profile, doc, findings, units, hovered, selected, selectedFinding, onHover, onSelect, stale }: Props) {
@@ -70,8 +70,19 @@ function EditorDrawingInner({ profile, doc, findings, units, hovered, selected, 
   const v = view ?? fitted;
   const guides = useMemo(() => guideCircles(doc), [doc]);
   const size = Math.max(v.w, v.h);
-  // stroke widths and text sizes follow the zoom so lines stay crisp and labels readable
-  const px = size / 900;
+  // one screen pixel in drawing units: strokes and labels keep their screen size at any zoom
+  const [box, setBox] = useState<{ w: number; h: number }>({ w: 900, h: 700 });
+  useEffect(() => {
+    const el = svgRef.current;
+    if (!el) return;
+    const ro = new ResizeObserver(() => {
+      const r = el.getBoundingClientRect();
+      if (r.width > 0 && r.height > 0) setBox({ w: r.width, h: r.height });
+    });
+    ro.observe(el);
+    return () => ro.disconnect();
+  }, []);
+  const px = Math.max(v.w / box.w, v.h / box.h);
 
   const toSvg = useCallback((clientX: number, clientY: number, vv: View) => {
     const el = svgRef.current!;
@@ -155,35 +166,36 @@ function EditorDrawingInner({ profile, doc, findings, units, hovered, selected, 
         {guides.ringPitchR && (
           <circle data-testid="ring-pitch" cx={0} cy={0} r={guides.ringPitchR} fill="none" stroke="#7a4ab0" strokeOpacity={0.55} strokeWidth={px} strokeDasharray={`${3 * px} ${3 * px}`} />
         )}
-        {/* centre axis and datum */}
-        <g stroke="#c2372b" strokeWidth={1.2 * px}>
-          <line x1={-size * 0.07} y1={0} x2={size * 0.07} y2={0} />
-          <line x1={0} y1={-size * 0.07} x2={0} y2={size * 0.07} />
-        </g>
-        <text x={size * 0.012} y={size * 0.03} fontSize={13 * px} fill="#c2372b" fontWeight={600}>
-          DATUM A · crank axis (0, 0)
-        </text>
         {profile.holes.map((h) => (
           <HoleMark key={h.id} h={h} px={px} hovered={hovered === h.id} selected={sel.has(h.id)} flag={flagged.get(h.id)} onHover={onHover} />
         ))}
-        {findings.map((f, i) => (f.at ? <FindingMark key={i} f={f} px={px} active={selectedFinding === i} /> : null))}
+
+        {/* centre axis and datum */}
+        <g stroke="#c2372b" strokeWidth={1.2 * px}>
+          <line x1={-40 * px} y1={0} x2={40 * px} y2={0} />
+          <line x1={0} y1={-40 * px} x2={0} y2={40 * px} />
+        </g>
+        <text x={5 * px} y={16 * px} fontSize={13 * px} fill="#c2372b" fontWeight={700} stroke="#ffffff" strokeWidth={3 * px} paintOrder="stroke">
+          DATUM A · crank axis (0, 0)
+        </text>
+        {findings.map((f, i) => (f.at && (f.severity !== 'note' || selectedFinding === i) ? <FindingMark key={i} f={f} px={px} active={selectedFinding === i} /> : null))}
         {selHole && <Dimension h={selHole} px={px} units={units} />}
       </svg>
-      <div className="pointer-events-none absolute left-2 top-2 rounded bg-white/90 px-2 py-1 text-[13px] leading-5 text-plate-900 shadow-sm" data-testid="legend">
-        <LegendRow face="engine" />
-        <LegendRow face="transmission" />
-        <LegendRow face="plate" />
-        <div className="flex items-center gap-2"><span className="inline-block h-0.5 w-5 bg-finding-error" /> finding (ligament, edge …)</div>
-      </div>
-      <div className="absolute bottom-2 right-2 flex gap-1">
+      <div className="absolute right-2 top-11 flex gap-1">
         <button type="button" className="rounded border border-blast-200 bg-white px-2 py-1 text-sm hover:bg-plate-100" onClick={() => setView(null)} title="Fit the plate in view">Fit</button>
       </div>
       {stale && (
-        <p className="absolute inset-x-0 bottom-2 mx-auto w-fit rounded bg-finding-warning px-3 py-1 text-sm font-semibold text-white" role="status">
+        <p className="absolute inset-x-0 bottom-9 mx-auto w-fit rounded bg-finding-warning px-3 py-1 text-sm font-semibold text-white" role="status">
           Showing the last plate that could be laid out — fix the marked field to update it.
         </p>
       )}
-      <p className="pointer-events-none absolute bottom-2 left-2 text-xs text-plate-500">seen from the transmission side · +X right, +Y up · wheel: zoom, drag: pan</p>
+      <div className="pointer-events-none absolute inset-x-0 bottom-0 flex flex-wrap items-center gap-x-4 gap-y-0.5 bg-white/90 px-2 py-1 text-[13px] text-plate-900" data-testid="legend">
+        <LegendRow face="engine" />
+        <LegendRow face="transmission" />
+        <LegendRow face="plate" />
+        <span className="flex items-center gap-1.5"><span className="inline-block h-1 w-5 rounded bg-finding-error" /> finding</span>
+        <span className="text-xs text-plate-500">seen from the transmission side · +X right, +Y up · wheel zooms, drag pans</span>
+      </div>
     </div>
   );
 }
@@ -191,13 +203,13 @@ function EditorDrawingInner({ profile, doc, findings, units, hovered, selected, 
 function LegendRow({ face }: { face: keyof typeof FACE_LOOK }) {
   const l = FACE_LOOK[face];
   return (
-    <div className="flex items-center gap-2">
+    <span className="flex items-center gap-1.5">
       <svg width="16" height="16" viewBox="-8 -8 16 16" aria-hidden="true">
         <circle r="5.5" fill={l.fill} stroke={l.stroke} strokeWidth="1.6" />
         {l.ring && <circle r="7.3" fill="none" stroke={l.stroke} strokeWidth="1" strokeDasharray="2 1.5" />}
       </svg>
       {l.label}
-    </div>
+    </span>
   );
 }
 
@@ -263,7 +275,7 @@ function Dimension({ h, px, units }: { h: ProfileHole; px: number; units: Displa
         <line x1={x} y1={0} x2={x} y2={-y} />
       </g>
       <line x1={x + r * 0.7} y1={-y - r * 0.7} x2={tx} y2={ty + fs * 0.3} stroke="#10232d" strokeWidth={px} />
-      <rect x={tx - 4 * px} y={ty - fs * 1.1} width={fs * 0.56 * Math.max(...lines.map((l) => l.length)) + 8 * px} height={fs * 1.3 * lines.length + 6 * px} fill="#10232d" rx={3 * px} />
+      <rect x={tx - 4 * px} y={ty - fs * 1.1} width={fs * 0.62 * Math.max(...lines.map((l) => l.length)) + 8 * px} height={fs * 1.3 * lines.length + 6 * px} fill="#10232d" rx={3 * px} />
       {lines.map((l, i) => (
         <text key={i} x={tx} y={ty + i * fs * 1.3} fontSize={fs} fill="#ffffff" fontFamily="ui-monospace, monospace">
           {l}

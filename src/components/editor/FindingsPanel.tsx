@@ -7,7 +7,11 @@ const SEV = {
 } as const;
 
 /** Live check findings (and spec problems that stop the plate being laid out). Clicking a finding selects its features. */
+const RANK = { error: 0, warning: 1, note: 2 } as const;
+
 export function FindingsPanel({ findings, issues, selected, onPick }: { findings: readonly Finding[]; issues: readonly SpecIssue[]; selected: number | null; onPick(i: number, f: Finding): void }) {
+  // errors first, then warnings, then notes; the index stays the finding's own (for the drawing)
+  const order = findings.map((f, i) => ({ f, i })).sort((a, b) => RANK[a.f.severity] - RANK[b.f.severity] || a.i - b.i);
   return (
     <section aria-labelledby="findings-h" className="flex h-full min-h-0 flex-col" data-testid="findings-panel">
       <h2 id="findings-h" className="border-b border-blast-200 px-3 py-2 text-sm font-bold uppercase tracking-wide text-plate-700">
@@ -22,7 +26,7 @@ export function FindingsPanel({ findings, issues, selected, onPick }: { findings
         )}
         {findings.length === 0 && issues.length === 0 && <p className="p-2 text-sm text-emerald-800">No findings: every check passes.</p>}
         <ul className="space-y-1.5">
-          {findings.map((f, i) => {
+          {order.map(({ f, i }) => {
             const s = SEV[f.severity];
             return (
               <li key={`${f.code}-${f.featureIds.join('-')}-${i}`}>

@@ -1,4 +1,4 @@
-import { useMemo, useState, type ClipboardEvent } from 'react';
+import { useMemo, useState, type ClipboardEvent, type ReactNode } from 'react';
 import { createColumnHelper, flexRender, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
 import type { PlateSpecInput } from '~/domain';
 import { parseFastener } from '~/domain/standards/threads';
@@ -44,6 +44,15 @@ interface Props {
 
 const col = createColumnHelper<Row>();
 
+/**
+ * Cells are called as plain functions, not mounted as components: the column definitions are
+ * rebuilt on every edit, and mounting them as component types would remount every input (losing
+ * focus and the typed draft) on each keystroke.
+ */
+function renderCell<C>(cell: unknown, ctx: C): ReactNode {
+  return typeof cell === 'function' ? (cell as (c: C) => ReactNode)(ctx) : (cell as ReactNode);
+}
+
 export function HoleTable({ doc, face, units, issues, hovered, selected, onHover, onSelect, commit, readOnly }: Props) {
   const [sorting, setSorting] = useState<SortingState>([]);
   const [pasteReport, setPasteReport] = useState<{ added: string[]; problems: string[] } | null>(null);
@@ -63,7 +72,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
       col.accessor((r) => r.hole.id, {
         id: 'id',
         header: 'ID',
-        size: 76,
+        size: 64,
         cell: ({ row }) => (
           <CellInput
             cell={`${row.index}:id`}
@@ -82,7 +91,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
       col.accessor((r) => r.hole.role, {
         id: 'role',
         header: 'Role',
-        size: 104,
+        size: 88,
         cell: ({ row }) => (
           <select
             aria-label={`${row.original.hole.id} role`}
@@ -99,7 +108,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
         col.accessor((r) => r[axis] ?? Number.NaN, {
           id: axis,
           header: `${axis.toUpperCase()} (${unitHead})`,
-          size: 96,
+          size: 94,
           cell: ({ row }) => {
             const r = row.original;
             const onPattern = r.hole.patternId !== undefined;
@@ -125,7 +134,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
       col.accessor((r) => (r.hole.role === 'dowel' ? (r.hole.dowel?.diameterMm ?? 0) : (r.hole.fastener ?? '')), {
         id: 'size',
         header: 'Size',
-        size: 120,
+        size: 96,
         sortingFn: 'alphanumeric',
         cell: ({ row }) => {
           const r = row.original;
@@ -169,7 +178,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
       col.display({
         id: 'detail',
         header: 'Class / fit',
-        size: 104,
+        size: 84,
         cell: ({ row }) => {
           const h = row.original.hole;
           if (h.role === 'dowel') {
@@ -203,7 +212,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
       col.display({
         id: 'cbore',
         header: "C'bore",
-        size: 64,
+        size: 50,
         cell: ({ row }) => {
           const h = row.original.hole;
           if (h.role !== 'clearance') return null;
@@ -224,7 +233,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
       col.display({
         id: 'actions',
         header: '',
-        size: 70,
+        size: 62,
         cell: ({ row }) => (
           <div className="flex justify-end gap-0.5">
             <button type="button" disabled={readOnly} title={`Duplicate ${row.original.hole.id} (10 mm to the right)`} aria-label={`Duplicate ${row.original.hole.id}`}
@@ -233,7 +242,9 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
                 const r = duplicateHole(doc, face, row.original.index);
                 commit(r.doc);
                 onSelect([r.id]);
-              }}>⧉</button>
+              }}>
+              <svg width="16" height="16" viewBox="0 0 16 16" aria-hidden="true" fill="none" stroke="currentColor" strokeWidth="1.6"><rect x="5" y="5" width="9" height="9" rx="1" /><path d="M11 5V3a1 1 0 0 0-1-1H3a1 1 0 0 0-1 1v7a1 1 0 0 0 1 1h2" /></svg>
+            </button>
             <button type="button" disabled={readOnly} title={`Delete ${row.original.hole.id}`} aria-label={`Delete ${row.original.hole.id}`}
               className="rounded px-1.5 py-1 text-finding-error hover:bg-red-50"
               onClick={() => commit(deleteHoles(doc, face, [row.original.index]))}>✕</button>
@@ -273,7 +284,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
 
   const selectedSet = new Set(selected);
   return (
-    <div onPaste={onPaste} data-testid={`hole-table-${face}`}>
+    <div onPaste={onPaste} data-testid={`hole-table-${face}`} className="overflow-x-auto">
       <table className="w-full table-fixed border-collapse text-[15px]">
         <colgroup>
           {table.getVisibleLeafColumns().map((c) => <col key={c.id} style={{ width: c.getSize() }} />)}
@@ -311,7 +322,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
                 className={`border-b border-blast-200 ${hot ? 'bg-brass-500/25' : 'odd:bg-white even:bg-blast-50'}`}
               >
                 {row.getVisibleCells().map((c) => (
-                  <td key={c.id} className="px-0.5 py-0.5 align-middle">{flexRender(c.column.columnDef.cell, c.getContext())}</td>
+                  <td key={c.id} className="px-0.5 py-0.5 align-middle">{renderCell(c.column.columnDef.cell, c.getContext())}</td>
                 ))}
               </tr>
             );

@@ -45,6 +45,7 @@ interface Conflict {
   saveMessage: string;
 }
 
+const NO_ISSUES: ReadonlyMap<string, string> = new Map();
 const SAFETY_KEY = (plateId: number) => `platewright.safetySeen.${plateId}`;
 
 export default function PlateEditor(props: PlateEditorProps) {
@@ -64,6 +65,8 @@ export default function PlateEditor(props: PlateEditorProps) {
   const [toast, setToast] = useState<{ text: string; href?: string; bad?: boolean } | null>(null);
   const [reapplied, setReapplied] = useState<string[] | null>(null);
   const lastGood = useRef<PlateProfile | null>(null);
+  const [mounted, setMounted] = useState(false);
+  useEffect(() => setMounted(true), []);
 
   useEffect(() => {
     try {
@@ -87,7 +90,9 @@ export default function PlateEditor(props: PlateEditorProps) {
   const profile = evaluation?.profile ?? lastGood.current;
   const findings = evaluation?.findings ?? [];
   const counts = countFindings(findings);
-  const units: DisplayUnits = { length: doc?.displayUnits?.length ?? 'mm', fractions: doc?.displayUnits?.fractions ?? false };
+  const unitLength = doc?.displayUnits?.length ?? 'mm';
+  const unitFractions = doc?.displayUnits?.fractions ?? false;
+  const units: DisplayUnits = useMemo(() => ({ length: unitLength, fractions: unitFractions }), [unitLength, unitFractions]);
   const unitsKey = `${units.length}-${units.fractions}`;
   const dirty = !!doc && doc !== baseDoc;
 
@@ -235,28 +240,28 @@ export default function PlateEditor(props: PlateEditorProps) {
   return (
     <div className="flex h-full min-h-0 flex-col" data-testid="plate-editor">
       {/* header bar */}
-      <div className="flex flex-wrap items-center gap-x-4 gap-y-2 border-b border-plate-300 bg-white px-4 py-2">
+      <div className="flex flex-wrap items-center gap-x-3 gap-y-2 border-b border-plate-300 bg-white px-3 py-1.5">
         <div className="flex items-baseline gap-2">
           <a href={`/plates/${plate.id}`} className="font-mono text-xl font-bold text-plate-900 hover:underline">{plate.partNumber}</a>
-          <span className="max-w-[18rem] truncate text-plate-700">{plate.title}</span>
+          <span className="hidden max-w-[16rem] truncate text-plate-700 2xl:inline">{plate.title}</span>
         </div>
         <div className="flex items-center gap-2 text-sm" data-testid="base-revision">
-          {base ? <>from rev {base.number} <StatusBadge status={base.status} /></> : <span className="text-plate-700">new plate — no revision yet</span>}
-          {dirty && <span className="rounded bg-brass-500 px-2 py-0.5 text-xs font-bold text-slate-ink" data-testid="unsaved">UNSAVED CHANGES</span>}
-          {(dirty || base?.status !== 'approved') && <span className="rounded border border-finding-error px-1.5 py-0.5 text-xs font-bold text-finding-error">DRAFT — not released</span>}
+          {base ? <>rev {base.number} <StatusBadge status={base.status} /></> : <span className="text-plate-700">new plate — no revision yet</span>}
+          {dirty && <span className="rounded bg-brass-500 px-2 py-0.5 text-xs font-bold text-slate-ink" data-testid="unsaved">UNSAVED</span>}
+          {(dirty || base?.status !== 'approved') && <span className="hidden rounded border border-finding-error px-1.5 py-0.5 text-xs font-bold text-finding-error xl:inline" title="Files exported now are drafts, not a released revision">DRAFT</span>}
         </div>
         <div className="flex items-center gap-3 text-[15px] font-bold tabular-nums" data-testid="check-counts" aria-live="polite">
           <span className={counts.error ? 'text-finding-error' : 'text-plate-300'} data-count="error">● {counts.error} error{counts.error === 1 ? '' : 's'}</span>
           <span className={counts.warning ? 'text-finding-warning' : 'text-plate-300'} data-count="warning">▲ {counts.warning} warning{counts.warning === 1 ? '' : 's'}</span>
-          <span className={counts.note ? 'text-finding-note' : 'text-plate-300'} data-count="note">■ {counts.note}</span>
-          {evaluation && <span className="text-xs font-normal text-plate-500" title="time to check the plate">{evaluation.ms.toFixed(1)} ms</span>}
+          <span className={counts.note ? 'text-finding-note' : 'text-plate-300'} data-count="note">■ {counts.note}<span className="hidden 2xl:inline"> note{counts.note === 1 ? '' : 's'}</span></span>
+          {mounted && evaluation && <span className="hidden text-xs font-normal text-plate-500 2xl:inline" title="time to lay out and check the plate">{evaluation.ms.toFixed(1)} ms</span>}
         </div>
         <div className="ml-auto flex flex-wrap items-center gap-2">
           <button type="button" onClick={() => commit({ ...doc, displayUnits: nextUnits(units) })} disabled={readOnly} className="rounded border border-plate-700 px-3 py-1.5 text-sm font-semibold text-plate-900 hover:bg-plate-100" data-testid="units-toggle" title="Switch the display unit (inputs accept mm or inch either way)">
-            Units: {unitsLabel(units)}
+            <span className="hidden 2xl:inline">Units: </span>{unitsLabel(units)}
           </button>
-          <button type="button" onClick={doUndo} disabled={!history || !canUndo(history)} className="rounded px-2 py-1.5 text-sm font-semibold hover:bg-plate-100 disabled:opacity-40" title="Undo (Ctrl+Z)">↶ Undo</button>
-          <button type="button" onClick={doRedo} disabled={!history || !canRedo(history)} className="rounded px-2 py-1.5 text-sm font-semibold hover:bg-plate-100 disabled:opacity-40" title="Redo (Ctrl+Shift+Z)">↷ Redo</button>
+          <button type="button" onClick={doUndo} disabled={!history || !canUndo(history)} className="rounded px-2 py-1.5 text-base font-semibold hover:bg-plate-100 disabled:opacity-40" title="Undo (Ctrl+Z)" aria-label="Undo">↶<span className="hidden 2xl:inline"> Undo</span></button>
+          <button type="button" onClick={doRedo} disabled={!history || !canRedo(history)} className="rounded px-2 py-1.5 text-base font-semibold hover:bg-plate-100 disabled:opacity-40" title="Redo (Ctrl+Shift+Z)" aria-label="Redo">↷<span className="hidden 2xl:inline"> Redo</span></button>
           <ExportMenu onExport={exportFile} />
           <button type="button" onClick={() => setSafety(true)} className="rounded border-2 border-brass-500 px-3 py-1.5 text-sm font-bold text-plate-900 hover:bg-brass-500/20" data-testid="safety-button">⚠ Safety</button>
           {canEdit && <button type="button" onClick={() => setSaving('dialog')} className="rounded bg-plate-900 px-4 py-1.5 font-semibold text-white hover:bg-plate-700" data-testid="save-button">Save revision…</button>}
@@ -267,7 +272,7 @@ export default function PlateEditor(props: PlateEditorProps) {
       )}
 
       {/* body */}
-      <div className="grid min-h-0 flex-1 grid-cols-1 lg:grid-cols-[minmax(560px,44%)_1fr] 2xl:grid-cols-[760px_1fr_360px]">
+      <div className="grid min-h-0 flex-1 grid-cols-1 lg:grid-cols-[minmax(640px,48%)_1fr] 2xl:grid-cols-[760px_1fr_360px]">
         {/* left: inputs */}
         <div className="flex min-h-0 flex-col border-r border-plate-300 bg-white">
           <div role="tablist" aria-label="Editor sections" className="flex border-b border-plate-300 bg-plate-100 text-[15px] font-semibold">
@@ -289,15 +294,15 @@ export default function PlateEditor(props: PlateEditorProps) {
                 </div>
                 <FaceHeader doc={doc} face={face} commit={commit} readOnly={readOnly} />
                 <PatternHelpers key={`${face}-${unitsKey}`} doc={doc} face={face} units={units} commit={commit} onAdded={select} readOnly={readOnly} />
-                <HoleTable doc={doc} face={face} units={units} issues={evaluation?.issueMap ?? new Map()} hovered={hovered} selected={selected} onHover={setHovered} onSelect={select} commit={commit} readOnly={readOnly} />
+                <HoleTable doc={doc} face={face} units={units} issues={evaluation?.issueMap ?? NO_ISSUES} hovered={hovered} selected={selected} onHover={setHovered} onSelect={select} commit={commit} readOnly={readOnly} />
                 <p className="text-xs text-plate-500">Keys: ↑ ↓ Enter move between rows, Esc restores a cell, Ctrl+Z / Ctrl+Shift+Z undo/redo, Ctrl+S save. Paste rows (X, Y, size — tab or comma separated) anywhere on the table to add holes.</p>
               </div>
             )}
             {tab === 'plate' && (
               <div className="space-y-5">
-                <Section title="Plate, outline and material"><PlateSection key={unitsKey} doc={doc} units={units} commit={commit} issues={evaluation?.issueMap ?? new Map()} readOnly={readOnly} /></Section>
-                <Section title="Centre bore / register"><CentreBoreSection key={unitsKey} doc={doc} units={units} commit={commit} issues={evaluation?.issueMap ?? new Map()} readOnly={readOnly} /></Section>
-                <Section title="Starter"><StarterSection key={unitsKey} doc={doc} units={units} commit={commit} issues={evaluation?.issueMap ?? new Map()} readOnly={readOnly} /></Section>
+                <Section title="Plate, outline and material"><PlateSection key={unitsKey} doc={doc} units={units} commit={commit} issues={evaluation?.issueMap ?? NO_ISSUES} readOnly={readOnly} /></Section>
+                <Section title="Centre bore / register"><CentreBoreSection key={unitsKey} doc={doc} units={units} commit={commit} issues={evaluation?.issueMap ?? NO_ISSUES} readOnly={readOnly} /></Section>
+                <Section title="Starter"><StarterSection key={unitsKey} doc={doc} units={units} commit={commit} issues={evaluation?.issueMap ?? NO_ISSUES} readOnly={readOnly} /></Section>
               </div>
             )}
             {tab === 'stack' && <StackUpPanel doc={doc} units={units} commit={commit} readOnly={readOnly} />}
@@ -312,7 +317,7 @@ export default function PlateEditor(props: PlateEditorProps) {
                 <button key={k} type="button" role="tab" aria-selected={view === k} onClick={() => setView(k)} className={`px-3 py-1 ${view === k ? 'bg-plate-900 text-white' : 'text-plate-900 hover:bg-plate-100'}`}>{k === '2d' ? 'Drawing' : '3D'}</button>
               ))}
             </div>
-            {view === '2d' && profile && (
+            {view === '2d' && profile && mounted && (
               <EditorDrawing profile={profile} doc={doc} findings={findings} units={units} hovered={hovered} selected={selected} selectedFinding={selectedFinding} onHover={setHovered} onSelect={select} stale={!evaluation?.profile} />
             )}
             {view === '2d' && !profile && <p className="p-6 text-finding-error">The plate cannot be laid out yet — see the problems listed under Checks.</p>}

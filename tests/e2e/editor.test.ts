@@ -1,0 +1,195 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { mkdirSync, readFileSync } from 'node:fs';
+import DxfParser from 'dxf-parser';
+import { launchBrowser } from '../support/browser';
+import { testAppPort } from '../support/server';
+
+const base = process.env.E2E_BASE_URL ?? `http://127.0.0.1:${testAppPort()}`;
+const PASSWORD = process.env.DEMO_PASSWORD ?? 'platewright-demo';
+const SHOTS = '.test-artifacts/screens';
+const demoSpec = JSON.parse(readFileSync(new URL('../../templates/plates/demo.json', import.meta.url), 'utf8'));
+let browser: Browser;
+
+beforeAll(async () => {
+  mkdirSync(SHOTS, { recursive: true });
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+async function signedIn(email: string, viewport = { width: 1366, height: 768 }): Promise<{ context: BrowserContext; page: Page }> {
+  const context = await browser.newContext({ viewport, acceptDownloads: true });
+  const page = await context.newPage();
+  const r = await page.request.post(`${base}/api/auth/sign-in`, { data: { email, password: PASSWORD }, headers: { origin: base } });
+  expect(r.status(), await r.text()).toBe(200);
+  return { context, page };
+}
+
+/** A fresh plate with the demo spec as revision 1, made through the API the way the app does. */
+async function demoPlate(page: Page, title: string): Promise<{ plateId: number; revisionId: number }> {
+  const p = await page.request.post(`${base}/api/projects`, { data: { name: `Editor test ${title}` }, headers: { origin: base } });
+  expect(p.status(), await p.text()).toBe(201);
+  const projectId = (await p.json()).project.id;
+  const pl = await page.request.post(`${base}/api/projects/${projectId}/plates`, { data: { title }, headers: { origin: base } });
+  expect(pl.status(), await pl.text()).toBe(201);
+  const plateId = (await pl.json()).plate.id;
+  const r = await page.request.post(`${base}/api/plates/${plateId}/revisions`, { data: { spec: demoSpec, message: 'demo start', parentRevisionId: null }, headers: { origin: base } });
+  expect(r.status(), await r.text()).toBe(201);
+  return { plateId, revisionId: (await r.json()).revision.id };
+}
+
+async function openEditor(page: Page, plateId: number): Promise<void> {
+  await page.goto(`${base}/plates/${plateId}/edit`, { waitUntil: 'networkidle' });
+  await page.getByTestId('plate-drawing').waitFor();
+}
+
+const count = async (page: Page, kind: 'error' | 'warning') => Number((await page.locator(`[data-count="${kind}"]`).innerText()).match(/\d+/)![0]);
+
+describe('plate editor in Chromium', () => {
+  it('edits the demo plate: bolt circle, overlap found and fixed, bad input, units, save, DXF export', async () => {
+    const { context, page } = await signedIn('designer@example.test');
+    const errors: string[] = [];
+    page.on('pageerror', (e) => errors.push(e.message));
+    const { plateId } = await demoPlate(page, 'Editor walk-through');
+    await openEditor(page, plateId);
+
+    // safety panel on the first open of a plate
+    const safety = page.getByTestId('safety-panel');
+    await expect(safety.isVisible()).resolves.toBe(true);
+    expect(await safety.innerText()).toMatch(/dial indicator/);
+    await page.screenshot({ path: `${SHOTS}/editor-safety-1366.png` });
+    await page.getByRole('button', { name: /I understand/ }).click();
+    await expect(safety.count()).resolves.toBe(0);
+    expect(await count(page, 'error')).toBe(0);
+
+    // a bolt circle from the helper: 4 tapped M8 holes on 330 mm, first at 45°
+    await page.getByRole('button', { name: '+ Bolt circle' }).click();
+    await page.getByLabel('Bolt circle diameter').fill('330');
+    await page.getByLabel('Hole count').fill('4');
+    await page.getByLabel('Start angle').fill('45');
+    await page.getByLabel('Hole role').selectOption('tapped');
+    await page.getByLabel('Fastener', { exact: true }).fill('M8x1.25');
+    await page.getByRole('button', { name: 'Add holes' }).click();
+    for (const id of ['E9', 'E10', 'E11', 'E12']) {
+      await page.locator(`[data-row="${id}"]`).waitFor();
+      await expect(page.locator(`[data-testid="plate-drawing"] [data-feature="${id}"]`).count()).resolves.toBe(1);
+    }
+    // E9 at r = 165, 45°: x = y = 116.673 mm (as typed into the pattern)
+    expect(Number(await page.getByLabel('E9 X').inputValue())).toBeCloseTo(165 * Math.SQRT1_2, 3);
+
+    const errorsWithCircle = await count(page, 'error');
+    expect(await page.locator('[data-finding-code="layout.overlap"]').count()).toBe(0);
+
+    // move E1 onto E2: an overlap, in the panel and on the drawing
+    const e2x = await page.getByLabel('E2 X').inputValue();
+    const e2y = Number(await page.getByLabel('E2 Y').inputValue());
+    const e1x = await page.getByLabel('E1 X').inputValue();
+    const e1y = await page.getByLabel('E1 Y').inputValue();
+    await page.getByLabel('E1 X').fill(e2x);
+    await page.getByLabel('E1 Y').fill(String(e2y - 4));
+    const panelFinding = page.locator('[data-testid="findings-panel"] [data-finding-code="layout.overlap"]').first();
+    await panelFinding.waitFor({ state: 'attached' });
+    expect(await panelFinding.innerText()).toMatch(/E1 and E2 overlap/);
+    await expect(page.locator('[data-testid="plate-drawing"] [data-finding="layout.overlap"]').count()).resolves.toBeGreaterThan(0);
+    expect(await count(page, 'error')).toBeGreaterThan(errorsWithCircle);
+    // clicking the finding selects both holes: the dimension of the first shows
+    await panelFinding.click();
+    await page.getByTestId('dimension').waitFor();
+    expect(await page.locator('[data-row="E2"][data-hot="true"]').count()).toBe(1);
+    await page.screenshot({ path: `${SHOTS}/editor-overlap-1366.png` });
+
+    // put it back: the finding goes away
+    await page.getByLabel('E1 X').fill(e1x);
+    await page.getByLabel('E1 Y').fill(e1y);
+    await page.locator('[data-finding-code="layout.overlap"]').first().waitFor({ state: 'detached' });
+    expect(await page.locator('[data-testid="plate-drawing"] [data-finding="layout.overlap"]').count()).toBe(0);
+    expect(await count(page, 'error')).toBe(errorsWithCircle);
+
+    // garbage is refused inline and changes nothing
+    const before = await page.locator('[data-testid="plate-drawing"] [data-feature="E3"] circle').last().getAttribute('cx');
+    await page.getByLabel('E3 X').fill('12,5');
+    const alert = page.getByRole('alert').filter({ hasText: 'use a dot' });
+    await alert.waitFor();
+    expect(await page.locator('[data-testid="plate-drawing"] [data-feature="E3"] circle').last().getAttribute('cx')).toBe(before);
+    await page.getByLabel('E3 X').press('Escape');
+    await alert.waitFor({ state: 'detached' });
+
+    // units: inch shown everywhere, the stored value unchanged
+    await page.getByTestId('units-toggle').click();
+    expect(await page.locator('th', { hasText: 'X (in)' }).count()).toBe(1);
+    const e2xIn = Number(await page.getByLabel('E2 X').inputValue());
+    expect(e2xIn).toBeCloseTo(Number(e2x) / 25.4, 3); // 1 in = 25.4 mm
+    await page.screenshot({ path: `${SHOTS}/editor-inch-1366.png` });
+
+    // large monitor
+    await page.setViewportSize({ width: 1920, height: 1080 });
+    await page.waitForTimeout(200);
+    await page.screenshot({ path: `${SHOTS}/editor-1920.png` });
+
+    // save: a message is required, then it is revision 2 and shows in the history
+    await page.getByTestId('save-button').click();
+    await page.getByTestId('save-dialog').getByRole('button', { name: 'Save revision' }).click();
+    await page.getByRole('alert').filter({ hasText: 'needs a message' }).waitFor();
+    await page.getByLabel('What changed and why').fill('four tapped holes on 330 mm; inch display');
+    await page.getByTestId('save-dialog').getByRole('button', { name: 'Save revision' }).click();
+    const toast = page.getByTestId('toast');
+    await toast.waitFor();
+    expect(await toast.innerText()).toMatch(/Saved as revision 2/);
+    const plate = await (await page.request.get(`${base}/api/plates/${plateId}`)).json();
+    expect(plate.plate.revisions.map((r: { number: number }) => r.number)).toContain(2);
+    const rev2 = plate.plate.revisions.find((r: { number: number }) => r.number === 2);
+    const saved = (await (await page.request.get(`${base}/api/revisions/${rev2.id}`)).json()).revision.spec;
+    expect(saved.engineFace.holes.map((h: { id: string }) => h.id)).toEqual(expect.arrayContaining(['E9', 'E10', 'E11', 'E12']));
+    expect(saved.displayUnits.length).toBe('in');
+
+    // DXF of the current state: every round feature is a circle
+    await page.getByTestId('export-button').click();
+    const [dl] = await Promise.all([page.waitForEvent('download'), page.locator('[data-export="dxf"]').click()]);
+    expect(dl.suggestedFilename()).toMatch(/\.dxf$/);
+    const text = readFileSync((await dl.path())!, 'utf8');
+    const dxf = new DxfParser().parseSync(text)!;
+    const circles = dxf.entities.filter((e) => e.type === 'CIRCLE' && !e.layer.startsWith('PW_CBORE'));
+    // demo: 10 engine + 9 transmission + centre bore + starter bore + 2 starter holes = 23, plus the 4 new
+    expect(circles.length).toBe(27);
+
+    await page.goto(`${base}/plates/${plateId}`);
+    expect(await page.getByTestId('timeline').innerText()).toMatch(/rev 2/);
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it('a stale save offers to reload and re-apply, or to save a branch; nothing typed is lost', async () => {
+    const { context, page } = await signedIn('designer@example.test');
+    const { plateId, revisionId } = await demoPlate(page, 'Editor conflict');
+    await openEditor(page, plateId);
+    await page.getByRole('button', { name: /I understand/ }).click();
+    // someone else saves revision 2 meanwhile (thicker plate)
+    const other = await page.request.post(`${base}/api/plates/${plateId}/revisions`, {
+      data: { spec: { ...demoSpec, notes: 'changed elsewhere' }, message: 'other change', parentRevisionId: revisionId },
+      headers: { origin: base },
+    });
+    expect(other.status()).toBe(201);
+    await page.getByLabel('E1 X').fill('118');
+    await page.getByTestId('save-button').click();
+    await page.getByLabel('What changed and why').fill('nudge E1');
+    await page.getByTestId('save-dialog').getByRole('button', { name: 'Save revision' }).click();
+    const dialog = page.getByTestId('conflict-dialog');
+    await dialog.waitFor();
+    expect(await dialog.innerText()).toMatch(/revision 2/);
+    await page.getByRole('button', { name: /Load revision 2 and re-apply/ }).click();
+    await dialog.waitFor({ state: 'detached' });
+    expect(await page.getByLabel('E1 X').inputValue()).toBe('118');
+    await page.getByTestId('save-button').click();
+    await page.getByLabel('What changed and why').fill('nudge E1 on top of rev 2');
+    await page.getByTestId('save-dialog').getByRole('button', { name: 'Save revision' }).click();
+    await page.getByTestId('toast').filter({ hasText: 'Saved as revision 3' }).waitFor();
+    const plate = await (await page.request.get(`${base}/api/plates/${plateId}`)).json();
+    const rev3 = plate.plate.revisions.find((r: { number: number }) => r.number === 3);
+    const spec = (await (await page.request.get(`${base}/api/revisions/${rev3.id}`)).json()).revision.spec;
+    expect(spec.notes).toBe('changed elsewhere'); // theirs kept
+    expect(spec.engineFace.holes[0].x).toBe(118); // mine re-applied
+    await context.close();
+  });
+});

@@ -383,7 +383,7 @@ export class PlyParser implements StreamParser {
       const done = this.vertexTotal - this.remaining;
       throw new MeasureFileError(
         'measure.truncated',
-        `The file ends at byte ${this.offset}${this.pendingLength > 0 ? ` inside vertex ${done}` : ''}: its header announces ${this.vertexTotal} vertices of ${this.stride} bytes (${this.vertexStart + this.vertexTotal * this.stride} bytes up to the last), ${done} are there — it was cut short.`,
+        `The file ends at byte ${this.offset}${this.pendingLength > 0 ? ` inside vertex ${done}` : ''}: its header announces ${this.vertexTotal} vertices of ${this.stride} bytes, so the vertices run to byte ${this.vertexStart + this.vertexTotal * this.stride}; only ${done} are complete — it was cut short.`,
         { byteOffset: this.offset },
       );
     }

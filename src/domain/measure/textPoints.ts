@@ -32,7 +32,7 @@ const MAX_LABEL_LENGTH = 32;
  * Splits a line into fields. Returns the number of fields, or −(k + 1) when field k is empty
  * (two delimiters in a row). Quotes around a field are removed.
  */
-export function splitFields(bytes: Uint8Array, start: number, end: number, starts: Int32Array, ends: Int32Array): number {
+export function splitFields(bytes: Uint8Array, start: number, end: number, starts: Int32Array, ends: Int32Array, commaIsDelimiter = true): number {
   let count = 0;
   let i = start;
   let delimiters = 0;
@@ -42,7 +42,7 @@ export function splitFields(bytes: Uint8Array, start: number, end: number, start
       i++;
       continue;
     }
-    if (c === COMMA || c === SEMI) {
+    if ((c === COMMA && commaIsDelimiter) || c === SEMI) {
       delimiters++;
       if (delimiters > (count === 0 ? 0 : 1)) return -(count + 1);
       i++;
@@ -60,7 +60,7 @@ export function splitFields(bytes: Uint8Array, start: number, end: number, start
       let j = i;
       while (j < end) {
         const d = bytes[j]!;
-        if (d === SPACE || d === TAB || d === COMMA || d === SEMI) break;
+        if (d === SPACE || d === TAB || (d === COMMA && commaIsDelimiter) || d === SEMI) break;
         j++;
       }
       starts[count] = i;
@@ -140,6 +140,8 @@ export class TextPointParser implements StreamParser {
   private columns: TextColumns | null = null;
   private minFields = 3;
   private currentLine = 0;
+  /** a file whose first content line uses ";" separates with ";" only: "1,5" is then a decimal comma */
+  private commaIsDelimiter: boolean | null = null;
 
   constructor(
     private readonly format: 'xyz' | 'csv',
@@ -161,7 +163,12 @@ export class TextPointParser implements StreamParser {
     this.currentLine = line;
     if (isComment(bytes, start, end)) return;
     const { starts, ends } = this;
-    const count = splitFields(bytes, start, end, starts, ends);
+    if (this.commaIsDelimiter === null) {
+      let semicolon = false;
+      for (let i = start; i < end; i++) if (bytes[i] === SEMI) semicolon = true;
+      this.commaIsDelimiter = !semicolon;
+    }
+    const count = splitFields(bytes, start, end, starts, ends, this.commaIsDelimiter);
     if (count < 0) {
       throw new MeasureFileError('measure.columns', `Line ${line}, column ${-count} is empty (two separators in a row).`, { line, byteOffset });
     }

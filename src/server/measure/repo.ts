@@ -106,7 +106,8 @@ export async function createUpload(db: Db, user: SessionUser, projectId: number,
       await audit(tx, user.id, 'upload.created', { type: 'upload', id: row!.id }, { projectId, fileName: received.fileName, format: received.parsed.format, points: summary.pointCount, sizeBytes: received.sizeBytes });
       return row!.id;
     });
-    return await getUpload(db, user, id);
+    const { storageKey: _key, ...saved } = await getUpload(db, user, id);
+    return saved;
   } catch (e) {
     await received.pending.abort();
     if (committedKey) await store.remove(committedKey).catch(() => undefined);

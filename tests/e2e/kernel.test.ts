@@ -1,0 +1,82 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { readFileSync } from 'node:fs';
+import type { Browser } from 'playwright-core';
+import { launchBrowser } from '../support/browser';
+import { testAppPort } from '../support/server';
+import { startKernelInstance, type OC } from '../../src/cad/kernel.node.ts';
+import { readStep } from '../../src/cad/step';
+import { expectedCylindricalFaces, measureVolumeMm3, verifyPlate } from '../../src/cad/buildPlate';
+import { analyseLayout } from '../../src/cad/plateModel';
+import { analyticVolumeMm3 } from '../../src/cad/analyticVolume';
+import { plateSpecSchema } from '../../src/domain/spec';
+import { plateProfile } from '../../src/domain/profile';
+
+const base = process.env.E2E_BASE_URL ?? `http://127.0.0.1:${testAppPort()}`;
+let browser: Browser;
+let oc: OC;
+
+beforeAll(async () => {
+  [browser, oc] = await Promise.all([launchBrowser(), startKernelInstance()]);
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+describe('kernel check page in Chromium', () => {
+  it('loads the kernel worker with a progress bar, builds the demo plate and downloads a STEP that reads back', async () => {
+    const context = await browser.newContext({ acceptDownloads: true });
+    const page = await context.newPage();
+    // record every value the progress bar shows
+    await page.addInitScript(() => {
+      const seen: number[] = [];
+      (window as unknown as { __progress: number[] }).__progress = seen;
+      new MutationObserver((records) => {
+        for (const r of records) {
+          const v = (r.target as Element).getAttribute('aria-valuenow');
+          if (v !== null) seen.push(Number(v));
+        }
+      }).observe(document, { subtree: true, attributes: true, attributeFilter: ['aria-valuenow'] });
+    });
+    const wasm: { status: number; type?: string; cache?: string }[] = [];
+    page.on('response', (r) => {
+      if (r.url().endsWith('.wasm')) wasm.push({ status: r.status(), type: r.headers()['content-type'], cache: r.headers()['cache-control'] });
+    });
+    await page.goto(base + '/kernel');
+    await expect(page.locator('h1').innerText()).resolves.toBe('Kernel check');
+    expect(await page.locator('[role="progressbar"]').isVisible()).toBe(true);
+
+    await page.waitForSelector('#mesh-count[data-triangles]', { timeout: 90_000 });
+    const triangles = Number(await page.locator('#mesh-count').getAttribute('data-triangles'));
+    expect(triangles).toBeGreaterThan(1000);
+    await expect(page.locator('#kernel-phase').innerText()).resolves.toMatch(/Kernel ready/);
+    await expect(page.locator('#build-info').innerText()).resolves.toMatch(/direct B-rep, verified/);
+    const progress = await page.evaluate(() => (window as unknown as { __progress: number[] }).__progress);
+    expect(progress.some((v) => v > 0 && v < 100)).toBe(true); // shown while loading, not only at the end
+    expect(progress.at(-1)).toBe(100);
+    // the wasm comes from the app, as wasm, cached for good
+    expect(wasm[0]?.status).toBe(200);
+    expect(wasm[0]?.type).toBe('application/wasm');
+    expect(wasm[0]?.cache).toMatch(/immutable/);
+
+    const [download] = await Promise.all([page.waitForEvent('download'), page.locator('#step-download').click()]);
+    expect(download.suggestedFilename()).toMatch(/kernel-check\.step$/);
+    const bytes = new Uint8Array(readFileSync((await download.path())!));
+    expect(new TextDecoder().decode(bytes.slice(0, 13))).toBe('ISO-10303-21;');
+
+    // the kernel (in Node) reads the browser's STEP back: the demo plate's volume and faces
+    const profile = plateProfile(plateSpecSchema.parse(JSON.parse(readFileSync('templates/plates/demo.json', 'utf8'))));
+    const shape = readStep(oc, bytes);
+    try {
+      const analytic = analyticVolumeMm3(profile);
+      expect(Math.abs(measureVolumeMm3(oc, shape) - analytic) / analytic).toBeLessThan(1e-9);
+      const layout = analyseLayout(profile);
+      const v = verifyPlate(oc, shape, profile, layout.columns);
+      expect(v.valid).toBe(true);
+      expect(v.cylindricalFaces).toBe(expectedCylindricalFaces(profile, layout.columns));
+    } finally {
+      shape.delete();
+    }
+    await page.screenshot({ path: '.test-artifacts/kernel-check.png', fullPage: true });
+    await context.close();
+  });
+});

@@ -154,6 +154,16 @@ describe('plate editor in Chromium', () => {
     // demo: 10 engine + 9 transmission + centre bore + starter bore + 2 starter holes = 23, plus the 4 new
     expect(circles.length).toBe(27);
 
+    // the drawing PDF of the current state is a draft
+    const pdf = await page.request.post(`${base}/api/plates/${plateId}/preview/drawing.pdf`, { data: { spec: saved, basedOnRevisionId: rev2.id }, headers: { origin: base } });
+    expect(pdf.status(), pdf.status() === 200 ? '' : await pdf.text()).toBe(200);
+    expect(pdf.headers()['content-disposition']).toMatch(/DRAFT-not-released\.pdf/);
+    expect((await pdf.body()).subarray(0, 5).toString('latin1')).toBe('%PDF-');
+    // a bad spec is refused with the field named, not drawn
+    const badPdf = await page.request.post(`${base}/api/plates/${plateId}/preview/drawing.pdf`, { data: { spec: { ...saved, thicknessMm: 0 } }, headers: { origin: base } });
+    expect(badPdf.status()).toBe(400);
+    expect((await badPdf.json()).error.message).toMatch(/thicknessMm/);
+
     await page.goto(`${base}/plates/${plateId}`);
     expect(await page.getByTestId('timeline').innerText()).toMatch(/rev 2/);
     expect(errors).toEqual([]);

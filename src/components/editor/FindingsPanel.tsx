@@ -1,3 +1,4 @@
+import { memo } from 'react';
 import type { Finding, SpecIssue } from '~/domain';
 
 const SEV = {
@@ -9,7 +10,7 @@ const SEV = {
 /** Live check findings (and spec problems that stop the plate being laid out). Clicking a finding selects its features. */
 const RANK = { error: 0, warning: 1, note: 2 } as const;
 
-export function FindingsPanel({ findings, issues, selected, onPick }: { findings: readonly Finding[]; issues: readonly SpecIssue[]; selected: number | null; onPick(i: number, f: Finding): void }) {
+export const FindingsPanel = memo(function FindingsPanel({ findings, issues, selected, onPick }: { findings: readonly Finding[]; issues: readonly SpecIssue[]; selected: number | null; onPick(i: number, f: Finding): void }) {
   // errors first, then warnings, then notes; the index stays the finding's own (for the drawing)
   const order = findings.map((f, i) => ({ f, i })).sort((a, b) => RANK[a.f.severity] - RANK[b.f.severity] || a.i - b.i);
   return (
@@ -52,4 +53,4 @@ export function FindingsPanel({ findings, issues, selected, onPick }: { findings
       </div>
     </section>
   );
-}
+});

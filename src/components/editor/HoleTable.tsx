@@ -1,4 +1,4 @@
-import { useMemo, useState, type ClipboardEvent, type ReactNode } from 'react';
+import { memo, useMemo, useState, type ClipboardEvent, type ReactNode } from 'react';
 import { createColumnHelper, flexRender, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
 import type { PlateSpecInput } from '~/domain';
 import { parseFastener } from '~/domain/standards/threads';
@@ -8,7 +8,8 @@ import { parseHoleRows } from '~/domain/editor/paste';
 import { addPastedRows, deleteHoles, duplicateHole, holeFacePosition, patchHole, setHoleCoordinate, type FaceKey, type HoleInput } from '~/domain/editor/specOps';
 import { CellInput, type CellVerdict } from './CellInput';
 
-export type Commit = (next: PlateSpecInput, key?: string) => void;
+/** A new document, or an edit applied to the newest one (safe when the caller rendered an older one). */
+export type Commit = (next: PlateSpecInput | ((current: PlateSpecInput) => PlateSpecInput), key?: string) => void;
 
 interface Row {
   readonly index: number;
@@ -53,7 +54,7 @@ function renderCell<C>(cell: unknown, ctx: C): ReactNode {
   return typeof cell === 'function' ? (cell as (c: C) => ReactNode)(ctx) : (cell as ReactNode);
 }
 
-export function HoleTable({ doc, face, units, issues, hovered, selected, onHover, onSelect, commit, readOnly }: Props) {
+export const HoleTable = memo(function HoleTable({ doc, face, units, issues, hovered, selected, onHover, onSelect, commit, readOnly }: Props) {
   const [sorting, setSorting] = useState<SortingState>([]);
   const [pasteReport, setPasteReport] = useState<{ added: string[]; problems: string[] } | null>(null);
   const f = doc[face];
@@ -81,7 +82,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
             issue={issueAt(row.original.index, 'id')}
             read={(t): CellVerdict =>
               /^[A-Za-z][A-Za-z0-9_-]{0,15}$/.test(t.trim())
-                ? { ok: true, apply: () => commit(patchHole(doc, face, row.original.index, { id: t.trim() }), `id:${face}:${row.original.index}`) }
+                ? { ok: true, apply: () => commit((d) => patchHole(d, face, row.original.index, { id: t.trim() }), `id:${face}:${row.original.index}`) }
                 : { ok: false, message: 'an id starts with a letter: E1, TD2 …' }
             }
             className="font-semibold"
@@ -97,7 +98,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
             aria-label={`${row.original.hole.id} role`}
             value={row.original.hole.role}
             disabled={readOnly}
-            onChange={(e) => commit(patchHole(doc, face, row.original.index, roleBody(row.original.hole, e.target.value as HoleInput['role'])))}
+            onChange={(e) => commit((d) => patchHole(d, face, row.original.index, roleBody(row.original.hole, e.target.value as HoleInput['role'])))}
             className="w-full rounded-sm border border-transparent bg-transparent px-1 py-1 text-[15px] hover:border-blast-200"
           >
             {ROLES.map((r) => <option key={r} value={r}>{r}</option>)}
@@ -123,7 +124,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
                 read={(t) => {
                   const v = readLength(t, units);
                   if (!v.ok) return v;
-                  return { ok: true, apply: () => commit(setHoleCoordinate(doc, face, r.index, axis, v.mm), `${axis}:${face}:${r.hole.id}`) };
+                  return { ok: true, apply: () => commit((d) => setHoleCoordinate(d, face, r.index, axis, v.mm), `${axis}:${face}:${r.hole.id}`) };
                 }}
                 className="text-right"
               />
@@ -150,7 +151,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
                   read={(t) => {
                     const v = readLength(t, units, { positive: true });
                     if (!v.ok) return v;
-                    return { ok: true, apply: () => commit(patchHole(doc, face, r.index, { dowel: { fit: 'H7', ...r.hole.dowel, diameterMm: v.mm } }), `dowel:${face}:${r.hole.id}`) };
+                    return { ok: true, apply: () => commit((d) => patchHole(d, face, r.index, { dowel: { fit: 'H7', ...r.hole.dowel, diameterMm: v.mm } }), `dowel:${face}:${r.hole.id}`) };
                   }}
                 />
               </div>
@@ -169,7 +170,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
                   if (!isDomainError(e)) throw e;
                   return { ok: false, message: `"${t}" is not a fastener: e.g. M10x1.5, M8, 3/8-16 UNC` };
                 }
-                return { ok: true, apply: () => commit(patchHole(doc, face, r.index, { fastener: t.trim() }), `fastener:${face}:${r.hole.id}`) };
+                return { ok: true, apply: () => commit((d) => patchHole(d, face, r.index, { fastener: t.trim() }), `fastener:${face}:${r.hole.id}`) };
               }}
             />
           );
@@ -187,7 +188,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
                 aria-label={`${h.id} dowel fit`}
                 value={h.dowel?.fit ?? 'H7'}
                 disabled={readOnly}
-                onChange={(e) => commit(patchHole(doc, face, row.original.index, { dowel: { diameterMm: h.dowel?.diameterMm ?? 10, fit: e.target.value } }), `fit:${face}:${h.id}`)}
+                onChange={(e) => commit((d) => patchHole(d, face, row.original.index, { dowel: { diameterMm: h.dowel?.diameterMm ?? 10, fit: e.target.value } }), `fit:${face}:${h.id}`)}
                 className={`w-full rounded-sm border px-1.5 py-1 font-mono text-[15px] ${issues.get(`${face}.holes.${row.original.index}.dowel.fit`) ? 'border-finding-error' : 'border-transparent hover:border-blast-200'}`}
               />
             );
@@ -200,7 +201,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
               aria-label={`${h.id} clearance class`}
               value={h.clearanceClass ?? ''}
               disabled={readOnly}
-              onChange={(e) => commit(patchHole(doc, face, row.original.index, { clearanceClass: e.target.value || undefined }))}
+              onChange={(e) => commit((d) => patchHole(d, face, row.original.index, { clearanceClass: e.target.value || undefined }))}
               className="w-full rounded-sm border border-transparent bg-transparent px-1 py-1 text-[15px] hover:border-blast-200"
             >
               <option value="">{inch ? 'normal (default)' : 'medium (default)'}</option>
@@ -224,7 +225,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
                 className="h-5 w-5 accent-plate-700"
                 checked={h.counterbore !== undefined}
                 disabled={readOnly}
-                onChange={(e) => commit(patchHole(doc, face, row.original.index, { counterbore: e.target.checked ? {} : undefined }))}
+                onChange={(e) => commit((d) => patchHole(d, face, row.original.index, { counterbore: e.target.checked ? {} : undefined }))}
               />
             </label>
           );
@@ -247,7 +248,7 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
             </button>
             <button type="button" disabled={readOnly} title={`Delete ${row.original.hole.id}`} aria-label={`Delete ${row.original.hole.id}`}
               className="rounded px-1.5 py-1 text-finding-error hover:bg-red-50"
-              onClick={() => commit(deleteHoles(doc, face, [row.original.index]))}>✕</button>
+              onClick={() => commit((d) => deleteHoles(d, face, [row.original.index]))}>✕</button>
           </div>
         ),
       }),
@@ -339,4 +340,4 @@ export function HoleTable({ doc, face, units, issues, hovered, selected, onHover
       )}
     </div>
   );
-}
+});

@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { memo, useState } from 'react';
 import { FLYWHEEL_HOUSING_SIZES, flywheelHousing, type PlateSpecInput } from '~/domain';
 import type { FlywheelHousingSize } from '~/domain/standards/flywheelHousings';
 import { editText, readLength, showLength, type DisplayUnits } from '~/domain/editor/units';
@@ -11,7 +11,7 @@ const box = 'rounded border border-blast-200 bg-white px-2 py-1.5 font-mono text
 const lab = 'block text-[13px] font-semibold uppercase tracking-wide text-plate-700';
 
 /** Bolt circle, published flywheel-housing preset, and "from measurements" for one face. */
-export function PatternHelpers({ doc, face, units, commit, onAdded, readOnly }: { doc: PlateSpecInput; face: FaceKey; units: DisplayUnits; commit: Commit; onAdded(ids: string[]): void; readOnly: boolean }) {
+export const PatternHelpers = memo(function PatternHelpers({ doc, face, units, commit, onAdded, readOnly }: { doc: PlateSpecInput; face: FaceKey; units: DisplayUnits; commit: Commit; onAdded(ids: string[]): void; readOnly: boolean }) {
   const [open, setOpen] = useState<'circle' | 'housing' | null>(null);
   const [dia, setDia] = useState('');
   const [count, setCount] = useState('6');
@@ -116,4 +116,4 @@ export function PatternHelpers({ doc, face, units, commit, onAdded, readOnly }: 
       )}
     </div>
   );
-}
+});

@@ -1,4 +1,4 @@
-import { lazy, Suspense, useCallback, useEffect, useMemo, useRef, useState } from 'react';
+import { lazy, Suspense, useCallback, useDeferredValue, useEffect, useMemo, useRef, useState } from 'react';
 import { countFindings, type Finding, type PlateProfile, type PlateSpecInput } from '~/domain';
 import { plateDxf } from '~/domain/exports/dxf';
 import { plateSvg } from '~/domain/exports/svg';
@@ -46,6 +46,8 @@ interface Conflict {
 }
 
 const NO_ISSUES: ReadonlyMap<string, string> = new Map();
+const NO_FINDINGS: readonly Finding[] = [];
+const NO_FINDINGS_ISSUES: readonly never[] = [];
 const SAFETY_KEY = (plateId: number) => `platewright.safetySeen.${plateId}`;
 
 export default function PlateEditor(props: PlateEditorProps) {
@@ -86,6 +88,10 @@ export default function PlateEditor(props: PlateEditorProps) {
 
   const doc = history?.present ?? null;
   const evaluation = useMemo(() => (doc ? evaluateDoc(doc) : null), [doc]);
+  // the table, the forms and the findings list render after the drawing (they are bigger);
+  // their edits are applied to the newest document, so a late render never loses one
+  const panelDoc = useDeferredValue(doc);
+  const panelEval = useDeferredValue(evaluation);
   if (evaluation?.profile) lastGood.current = evaluation.profile;
   const profile = evaluation?.profile ?? lastGood.current;
   const findings = evaluation?.findings ?? [];
@@ -96,8 +102,11 @@ export default function PlateEditor(props: PlateEditorProps) {
   const unitsKey = `${units.length}-${units.fractions}`;
   const dirty = !!doc && doc !== baseDoc;
 
-  const commit = useCallback((next: PlateSpecInput, key?: string) => {
-    setHistory((h) => (h ? commitHistory(h, next, { key }) : startHistory(next)));
+  const commit = useCallback((next: PlateSpecInput | ((current: PlateSpecInput) => PlateSpecInput), key?: string) => {
+    setHistory((h) => {
+      if (!h) return typeof next === 'function' ? h : startHistory(next);
+      return commitHistory(h, typeof next === 'function' ? next(h.present) : next, { key });
+    });
     setSelectedFinding(null);
   }, []);
 
@@ -141,7 +150,10 @@ export default function PlateEditor(props: PlateEditorProps) {
     return () => window.removeEventListener('beforeunload', guard);
   }, [dirty]);
 
-  const pickFinding = (i: number, f: Finding) => {
+  const docRef = useRef(doc);
+  docRef.current = doc;
+  const pickFinding = useCallback((i: number, f: Finding) => {
+    const doc = docRef.current;
     setSelectedFinding(i);
     setSelected([...f.featureIds]);
     const first = f.featureIds[0];
@@ -154,7 +166,7 @@ export default function PlateEditor(props: PlateEditorProps) {
         setFace('transmissionFace');
       }
     }
-  };
+  }, []);
   const select = useCallback((ids: string[]) => setSelected(ids), []);
 
   useEffect(() => {
@@ -292,9 +304,9 @@ export default function PlateEditor(props: PlateEditorProps) {
                     </button>
                   ))}
                 </div>
-                <FaceHeader doc={doc} face={face} commit={commit} readOnly={readOnly} />
-                <PatternHelpers key={`${face}-${unitsKey}`} doc={doc} face={face} units={units} commit={commit} onAdded={select} readOnly={readOnly} />
-                <HoleTable doc={doc} face={face} units={units} issues={evaluation?.issueMap ?? NO_ISSUES} hovered={hovered} selected={selected} onHover={setHovered} onSelect={select} commit={commit} readOnly={readOnly} />
+                <FaceHeader doc={panelDoc!} face={face} commit={commit} readOnly={readOnly} />
+                <PatternHelpers key={`${face}-${unitsKey}`} doc={panelDoc!} face={face} units={units} commit={commit} onAdded={select} readOnly={readOnly} />
+                <HoleTable doc={panelDoc!} face={face} units={units} issues={panelEval?.issueMap ?? NO_ISSUES} hovered={hovered} selected={selected} onHover={setHovered} onSelect={select} commit={commit} readOnly={readOnly} />
                 <p className="text-xs text-plate-500">Keys: ↑ ↓ Enter move between rows, Esc restores a cell, Ctrl+Z / Ctrl+Shift+Z undo/redo, Ctrl+S save. Paste rows (X, Y, size — tab or comma separated) anywhere on the table to add holes.</p>
               </div>
             )}
@@ -328,11 +340,11 @@ export default function PlateEditor(props: PlateEditorProps) {
             )}
           </div>
           <div className="min-h-0 border-t border-plate-300 bg-blast-50 2xl:hidden">
-            <FindingsPanel findings={findings} issues={evaluation?.issues ?? []} selected={selectedFinding} onPick={pickFinding} />
+            <FindingsPanel findings={panelEval?.findings ?? NO_FINDINGS} issues={panelEval?.issues ?? NO_FINDINGS_ISSUES} selected={selectedFinding} onPick={pickFinding} />
           </div>
         </div>
         <div className="hidden min-h-0 border-l border-plate-300 bg-blast-50 2xl:block">
-          <FindingsPanel findings={findings} issues={evaluation?.issues ?? []} selected={selectedFinding} onPick={pickFinding} />
+          <FindingsPanel findings={panelEval?.findings ?? NO_FINDINGS} issues={panelEval?.issues ?? NO_FINDINGS_ISSUES} selected={selectedFinding} onPick={pickFinding} />
         </div>
       </div>
 

@@ -88,6 +88,8 @@ class Scope {
 
 /** A small geometry toolkit over the raw kernel, every object registered in the scope. */
 class Kit {
+  /** the feature being made, for error messages ('outline' for the blank) */
+  feature: string | null = null;
   constructor(
     readonly oc: OpenCascadeInstance,
     readonly s: Scope,
@@ -361,6 +363,7 @@ function directSideWall(k: Kit, profile: PlateProfile, stage: Stage = () => {}):
 function buildDirect(k: Kit, profile: PlateProfile, columns: readonly VoidColumn[], stage: Stage): TopoDS_Shape {
   const oc = k.oc;
   const t = profile.thicknessMm;
+  k.feature = 'outline';
   const side = directSideWall(k, profile, stage);
 
   const faces: TopoDS_Face[] = [...side.faces];
@@ -373,9 +376,18 @@ function buildDirect(k: Kit, profile: PlateProfile, columns: readonly VoidColumn
     floorInner.set(pocketId, list);
   };
   const { stacks, pockets } = stacksOf(columns);
-  const wireOfEdge = (e: TopoDS_Edge) => k.s.own(k.s.own(new oc.BRepBuilderAPI_MakeWire(e)).Wire());
+  const tb = k.s.own(new oc.TopoDS_Builder());
+  /** a wire of one closed edge, assembled directly (the edge keeps its orientation) */
+  const rimWire = (e: TopoDS_Shape): TopoDS_Wire => {
+    const w = k.s.own(new oc.TopoDS_Wire());
+    tb.MakeWire(w);
+    tb.Add(w, e);
+    w.Closed(true);
+    return w;
+  };
 
   for (const st of stacks) {
+    k.feature = st.id;
     // each column's wall: a cylinder face; its boundary runs bottom circle (counter-clockwise
     // seen from +Z), seam, top circle (clockwise), seam — the orientations every neighbour needs
     const rims: { bottom: TopoDS_Wire; top: TopoDS_Wire }[] = [];
@@ -383,10 +395,8 @@ function buildDirect(k: Kit, profile: PlateProfile, columns: readonly VoidColumn
       const wallFace = k.cylinderFace(col.center.x, col.center.y, col.radiusMm, col.z0, col.z1);
       // the face's wire runs: seam, bottom circle, seam, top circle (BRepLib_MakeFace order)
       const edges = childShapes(k, wallFace, 'edge');
-      const bottom = edges.length === 4 ? k.s.own(oc.TopoDS.Edge(edges[1]!)) : null;
-      const top = edges.length === 4 ? k.s.own(oc.TopoDS.Edge(edges[3]!)) : null;
-      if (!bottom || !top) throw new Error(`the wall of ${st.id} could not be made`);
-      rims.push({ bottom: wireOfEdge(bottom), top: wireOfEdge(top) });
+      if (edges.length !== 4) throw new Error(`the wall of ${st.id} could not be made`);
+      rims.push({ bottom: rimWire(edges[1]!), top: rimWire(edges[3]!) });
       faces.push(reversedFace(k, wallFace));
     }
     for (let i = 0; i < st.cols.length; i++) {
@@ -414,6 +424,7 @@ function buildDirect(k: Kit, profile: PlateProfile, columns: readonly VoidColumn
   }
   stage('columns');
   for (const p of pockets) {
+    k.feature = p.featureId;
     const w0 = k.chainWire(p.outline, p.z0);
     const vec = k.s.own(new oc.gp_Vec(0, 0, p.z1 - p.z0));
     const mk = k.s.own(new oc.BRepPrimAPI_MakePrism(w0, vec, false, true));
@@ -431,6 +442,7 @@ function buildDirect(k: Kit, profile: PlateProfile, columns: readonly VoidColumn
     }
   }
   stage('pockets');
+  k.feature = null;
   faces.push(orientedPlanarFace(k, 0, false, side.bottomOuter, bottomInner));
   faces.push(orientedPlanarFace(k, t, true, side.topOuter, topInner));
   stage('plateFaces');
@@ -464,6 +476,7 @@ function buildOneFace(k: Kit, profile: PlateProfile, columns: readonly VoidColum
   const over = 1; // tools reach 1 mm past a plate face they open onto
   for (const col of columns) {
     if (c === 0 && isPlain(col)) continue;
+    k.feature = col.featureId;
     const z0 = col.z0 <= Z_EPS ? -over : col.z0;
     const z1 = col.z1 >= t - Z_EPS ? t + over : col.z1;
     if (col.shape === 'circle') {
@@ -474,6 +487,7 @@ function buildOneFace(k: Kit, profile: PlateProfile, columns: readonly VoidColum
       tools.push(k.prism(face, z1 - z0));
     }
   }
+  k.feature = null;
   if (tools.length === 0) return blank;
   const cut = k.s.own(new oc.BRepAlgoAPI_Cut());
   cut.SetArguments(k.list([blank]));
@@ -613,6 +627,7 @@ export function buildPlate(oc: OpenCascadeInstance, profile: PlateProfile, opts:
   const directAllowed = layout.directSafe && domainDisjoint;
   const order: BuildStrategy[] = opts.strategy ? [opts.strategy] : directAllowed ? ['direct', 'oneFace'] : ['oneFace'];
   const rejected: string[] = [];
+  const failedFeatures = new Set<string>();
   if (!directAllowed && !opts.strategy) rejected.push(`direct: layout not disjoint (${layout.directBlockers.join(', ') || 'domain check'})`);
 
   for (const strategy of order) {
@@ -623,7 +638,9 @@ export function buildPlate(oc: OpenCascadeInstance, profile: PlateProfile, opts:
       const built = strategy === 'direct' ? buildDirect(kit, profile, layout.columns, stage) : buildOneFace(kit, profile, layout.columns);
       shape = scope.release(built);
     } catch (e) {
-      rejected.push(`${strategy}: ${e instanceof PlateBuildError ? e.message : describeKernelFailure(oc, e)}`);
+      const where = e instanceof PlateBuildError ? null : kit.feature;
+      if (where && where !== 'outline') failedFeatures.add(where);
+      rejected.push(`${strategy}: ${where ? `while making ${where}: ` : ''}${e instanceof PlateBuildError ? e.message : describeKernelFailure(oc, e)}`);
       if (e instanceof PlateBuildError) {
         scope.free();
         throw e;
@@ -657,10 +674,13 @@ export function buildPlate(oc: OpenCascadeInstance, profile: PlateProfile, opts:
       dispose: () => keep.delete(),
     };
   }
+  const ids = [...failedFeatures];
   throw new PlateBuildError(
     'build-unverified',
     `The plate could not be built into a solid that matches its drawing, so it is not shown or exported. ` +
-      `Check the features near the outline, pockets and counterbores. Details: ${rejected.join('; ')}`,
+      (ids.length ? `The kernel failed on ${ids.join(', ')}: check ${ids.length > 1 ? 'these features' : 'this feature'} against the outline, pockets and its neighbours. ` : 'Check the features near the outline, pockets and counterbores. ') +
+      `Details: ${rejected.join('; ')}`,
+    ids,
   );
 }
 

@@ -249,6 +249,31 @@ describe('buildPlate — actionable errors', () => {
     expect(describeKernelFailure(oc, caught)).toMatch(/Standard_ConstructionError: gp_Dir\(\) - input vector has zero norm/);
   });
 
+  it('a kernel failure inside a feature names the feature and the kernel message', () => {
+    // a kernel whose cylinder constructor fails the way OCCT does (a real kernel exception)
+    const failing = new Proxy(oc, {
+      get(target, key, recv) {
+        if (key === 'gp_Cylinder') {
+          return function () {
+            return new target.gp_Dir(0, 0, 0);
+          };
+        }
+        return Reflect.get(target, key, recv);
+      },
+    });
+    let err: unknown;
+    try {
+      buildPlate(failing, simplePlate, { strategy: 'direct' });
+    } catch (e) {
+      err = e;
+    }
+    expect(err).toBeInstanceOf(PlateBuildError);
+    const e = err as PlateBuildError;
+    expect(e.featureIds).toEqual(['C1']);
+    expect(e.message).toMatch(/The kernel failed on C1/);
+    expect(e.message).toMatch(/while making C1: Standard_ConstructionError: gp_Dir\(\) - input vector has zero norm/);
+  });
+
   it('the validity check rejects a solid with a face missing (so it can fail)', () => {
     const box = new oc.BRepPrimAPI_MakeBox(10, 10, 10).Shape();
     const ex = new oc.TopExp_Explorer(box, oc.TopAbs_ShapeEnum.TopAbs_FACE, oc.TopAbs_ShapeEnum.TopAbs_SHAPE);

@@ -6,6 +6,7 @@ export default getViteConfig({
   test: {
     include: ['tests/e2e/**/*.test.ts'],
     fileParallelism: false,
+    setupFiles: ['tests/support/testDatabaseGuard.ts'],
     testTimeout: 120_000,
     hookTimeout: 180_000,
     globalSetup: ['tests/support/e2eGlobalSetup.ts'],

@@ -7,6 +7,7 @@ export default getViteConfig({
   test: {
     include: ['tests/integration/**/*.test.ts'],
     fileParallelism: false,
+    setupFiles: ['tests/support/testDatabaseGuard.ts'],
     testTimeout: 60_000,
     hookTimeout: 120_000,
   },

@@ -10,23 +10,6 @@ export const CONTENT_TYPES: Record<FileName, string> = {
   'holes.csv': 'text/csv; charset=utf-8',
 };
 
-/** Download name with part number and revision, e.g. PW-0042-rev3.dxf, PW-0042-rev3-drawing.pdf. */
-export function downloadName(partNumber: string, revision: number, name: FileName): string {
-  const base = `${partNumber}-rev${revision}`;
-  switch (name) {
-    case 'plate.dxf':
-      return `${base}.dxf`;
-    case 'plate.step':
-      return `${base}.step`;
-    case 'plate.svg':
-      return `${base}.svg`;
-    case 'drawing.pdf':
-      return `${base}-drawing.pdf`;
-    case 'holes.csv':
-      return `${base}-holes.csv`;
-  }
-}
-
 export function isFileName(name: string): name is FileName {
   return (FILE_NAMES as readonly string[]).includes(name);
 }

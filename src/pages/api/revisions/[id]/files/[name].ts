@@ -3,7 +3,8 @@ import { requireRole } from '~/server/auth/guard';
 import { getDb } from '~/server/db/client';
 import { AppError, handle, idParam, notFound } from '~/server/errors';
 import { getRevision, getStoredFile, findRevision } from '~/server/repos/revisions';
-import { downloadName, isFileName } from '~/server/fileNames';
+import { isFileName } from '~/server/fileNames';
+import { contentDisposition, downloadFileName } from '~/server/files/index';
 import { renderOne } from '~/server/release';
 import { validateSpec } from '~/server/plateEngine';
 
@@ -43,7 +44,7 @@ export const GET: APIRoute = ({ locals, params }) =>
       headers: {
         'content-type': contentType,
         'content-length': String(bytes.byteLength),
-        'content-disposition': `attachment; filename="${downloadName(rev.partNumber, rev.number, name)}"`,
+        'content-disposition': contentDisposition(downloadFileName(rev.partNumber, rev.number, name)),
         'x-content-sha256': sha,
         'x-platewright-preview': preview ? 'yes' : 'no',
         'cache-control': preview ? 'no-store' : 'private, max-age=31536000, immutable',

@@ -82,8 +82,11 @@ export function drawPlateScript(profile: PlateProfile, iterations: number, warmu
   });
   out.push('}');
   out.push(`for {set i 0} {$i < ${warmups}} {incr i} { buildplate }`);
+  out.push('dchrono cpu reset', 'dchrono cpu start');
   out.push(`for {set i 0} {$i < ${iterations}} {incr i} {`);
   out.push('  set t0 [clock microseconds]', '  buildplate', '  set t1 [clock microseconds]', '  puts "PWTIME [expr {$t1 - $t0}]"', '}');
+  // CPU time of all timed builds (10 ms resolution, so only the total is meaningful)
+  out.push('dchrono cpu stop', 'puts "PWCPU [dchrono cpu show]"');
   out.push('puts "PWPROPS [vprops plate]"', 'checkshape plate', 'exit');
   return out.join('\n');
 }

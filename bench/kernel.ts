@@ -9,11 +9,12 @@
  *  - wasm heap growth over 200 builds, scaled to 1000;
  *  - baseline in the same run: the same plate built natively by OpenCASCADE's DRAW (occt-draw,
  *    when installed) the way a CAD user's model would be — blank, then boolean cuts.
- * The last line printed is one JSON object with the figures; ratio = ours ÷ native.
+ * The last line printed is one JSON object with the figures; ratio = ours ÷ native (wall-clock
+ * medians); cpuRatio compares CPU time per build, which holds up better on a busy machine.
  */
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, readdirSync, symlinkSync, writeFileSync, mkdtempSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { buildPlate, constructPlateSolidUnverified } from '../src/cad/buildPlate';
 import { heapBytesOf, startKernelInstance } from '../src/cad/kernel.node.ts';
@@ -43,7 +44,7 @@ const r2 = (v: number | null) => (v === null ? null : Math.round(v * 100) / 100)
 const r4 = (v: number | null) => (v === null ? null : Math.round(v * 10000) / 10000);
 
 /** Runs the DRAW baseline; returns per-build milliseconds, or why it could not run. */
-function nativeBaseline(): { ms: number[]; volumeMm3: number | null } | { unavailable: string } {
+function nativeBaseline(): { ms: number[]; cpuMsMean: number | null; volumeMm3: number | null } | { unavailable: string } {
   const exe = ['/usr/bin/occt-draw', '/usr/bin/DRAWEXE'].find((p) => existsSync(p));
   if (!exe) return { unavailable: 'occt-draw is not installed (apt-get install -y occt-draw)' };
   // DRAW's `pload` opens plug-in libraries by their unversioned names, which only the -dev
@@ -67,7 +68,10 @@ function nativeBaseline(): { ms: number[]; volumeMm3: number | null } | { unavai
   const ms = [...out.matchAll(/PWTIME (\d+)/g)].map((m) => Number(m[1]) / 1000);
   if (ms.length === 0) return { unavailable: `occt-draw ran but printed no timings: ${out.slice(0, 300)}` };
   const mass = /Mass :\s+([-\d.e+]+)/.exec(out);
-  return { ms, volumeMm3: mass ? Number(mass[1]) : null };
+  const user = /CPU user time: ([\d.e+-]+) seconds/.exec(out);
+  const sys = /CPU system time: ([\d.e+-]+) seconds/.exec(out);
+  const cpuMsMean = user ? ((Number(user[1]) + Number(sys?.[1] ?? 0)) * 1000) / ms.length : null;
+  return { ms, cpuMsMean, volumeMm3: mass ? Number(mass[1]) : null };
 }
 
 async function main() {
@@ -79,11 +83,16 @@ async function main() {
   // ---- construction (what a native script does), warm
   for (let i = 0; i < WARMUPS; i++) constructPlateSolidUnverified(oc, plate, 'direct').delete();
   const build: number[] = [];
+  let cpuUs = 0;
   for (let i = 0; i < RUNS; i++) {
     let s: { delete(): void } | null = null;
+    const c0 = process.cpuUsage();
     build.push(time(() => (s = constructPlateSolidUnverified(oc, plate, 'direct'))));
+    const c1 = process.cpuUsage(c0);
+    cpuUs += c1.user + c1.system;
     s!.delete();
   }
+  const buildCpuMsMean = cpuUs / 1000 / RUNS;
   const b = stats(build);
   console.log(`direct B-rep construction: median ${b.median.toFixed(2)} ms, p90 ${b.p90.toFixed(2)} ms`);
 
@@ -139,10 +148,12 @@ async function main() {
   // ---- native baseline
   const native = nativeBaseline();
   let nativeBuildMsMedian: number | null = null;
+  let nativeCpuMsMean: number | null = null;
   if ('unavailable' in native) {
     console.log(`native baseline: none — ${native.unavailable}`);
   } else {
     nativeBuildMsMedian = stats(native.ms).median;
+    nativeCpuMsMean = native.cpuMsMean;
     const analytic = analyticVolumeMm3(plate);
     console.log(
       `native DRAW (OCCT 7.6, blank + 4 boolean cuts): median ${nativeBuildMsMedian.toFixed(2)} ms, p90 ${stats(native.ms).p90.toFixed(2)} ms; ` +
@@ -158,6 +169,10 @@ async function main() {
     meshMs: r2(stats(mesh).median),
     dxfMs: r2(stats(dxf).median),
     heapGrowthMbPer1000: r2(heapGrowthMbPer1000),
+    buildCpuMsMean: r2(buildCpuMsMean),
+    nativeCpuMsMean: r2(nativeCpuMsMean),
+    cpuRatio: nativeCpuMsMean ? r4(buildCpuMsMean / nativeCpuMsMean) : null,
+    loadAverage1m: r2(loadavg()[0]!),
     verifiedBuildMsMedian: r2(v.median),
     verifiedBuildMsP90: r2(v.p90),
     verifiedRatio: nativeBuildMsMedian ? r4(v.median / nativeBuildMsMedian) : null,

@@ -21,20 +21,17 @@ export function MeasurementPolar({ hole, size = 220 }: { hole: HoleResult; size?
     const t = (deg * Math.PI) / 180;
     return [c + r * Math.cos(t), c - r * Math.sin(t)] as const;
   };
+  // the rim as one line through the bins that have points; a gap wider than 30° (rim not seen) breaks it
   const path: string[] = [];
-  let open = false;
+  let lastDeg: number | null = null;
   angleDeg.forEach((a, i) => {
     const e = meanMm[i];
-    if (e === null || e === undefined) {
-      open = false;
-      return;
-    }
+    if (e === null || e === undefined) return;
     const [x, y] = at(a, e);
-    path.push(`${open ? 'L' : 'M'}${x.toFixed(1)},${y.toFixed(1)}`);
-    open = true;
+    path.push(`${lastDeg === null || a - lastDeg > 30 ? 'M' : 'L'}${x.toFixed(1)},${y.toFixed(1)}`);
+    lastDeg = a;
   });
-  const full = hole.arcCoverageDeg > 359 && meanMm[0] !== null && meanMm[meanMm.length - 1] !== null;
-  if (full && path.length) path.push('Z');
+  if (hole.arcCoverageDeg > 330 && path.length > 2) path.push('Z');
   const label = span >= 0.1 ? `${span.toFixed(2)} mm` : `${(span * 1000).toFixed(0)} µm`;
   return (
     <figure className="inline-block" aria-label={`Polar deviation of hole ${hole.id}`}>

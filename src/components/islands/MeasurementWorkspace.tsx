@@ -442,13 +442,13 @@ function Workspace({ projectId, canEdit, plates, blankSpec }: Props) {
                   </table>
                   <div className="flex flex-wrap items-end gap-3 border-t border-blast-200 pt-3">
                     <label className="flex flex-col text-sm font-semibold">Face
-                      <select value={face} onChange={(e) => setFace(e.target.value as FaceName)} className="mt-1 rounded border border-blast-200 px-2 py-1 font-normal">
+                      <select aria-label="Face" value={face} onChange={(e) => setFace(e.target.value as FaceName)} className="mt-1 rounded border border-blast-200 px-2 py-1 font-normal">
                         <option value="engine">engine (block rear face)</option>
                         <option value="transmission">transmission (bell housing)</option>
                       </select>
                     </label>
                     <label className="flex flex-col text-sm font-semibold">This view is looking
-                      <select value={viewedFrom} onChange={(e) => setViewedFrom(e.target.value as 'rear' | 'front')} className="mt-1 rounded border border-blast-200 px-2 py-1 font-normal">
+                      <select aria-label="This view is looking" value={viewedFrom} onChange={(e) => setViewedFrom(e.target.value as 'rear' | 'front')} className="mt-1 rounded border border-blast-200 px-2 py-1 font-normal">
                         <option value="rear">forward, from behind (as the plate is drawn)</option>
                         <option value="front">rearward, at the mating face (mirrored onto the plate)</option>
                       </select>
@@ -460,7 +460,7 @@ function Workspace({ projectId, canEdit, plates, blankSpec }: Props) {
                       <input value={idPrefix} onChange={(e) => setIdPrefix(e.target.value)} className="mt-1 w-16 rounded border border-blast-200 px-2 py-1 font-normal" />
                     </label>
                     <label className="flex flex-col text-sm font-semibold">Plate
-                      <select value={plateId ?? ''} onChange={(e) => setPlateId(Number(e.target.value))} className="mt-1 rounded border border-blast-200 px-2 py-1 font-normal">
+                      <select aria-label="Plate" value={plateId ?? ''} onChange={(e) => setPlateId(Number(e.target.value))} className="mt-1 rounded border border-blast-200 px-2 py-1 font-normal">
                         {plates.length === 0 && <option value="">no plate in this project yet</option>}
                         {plates.map((p) => <option key={p.id} value={p.id}>{p.partNumber} {p.title}</option>)}
                       </select>

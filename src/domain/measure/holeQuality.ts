@@ -150,13 +150,14 @@ export function holeQuality(uv: Float64Array, circle: CircleFit, limits: HoleLim
   const ovalityMm = coef && coverage >= 180 ? 4 * Math.hypot(c2, s2) : 0;
   const ovalityAxisDeg = normalizeDeg((Math.atan2(s2, c2) * DEG_PER_RAD) / 2) % 180;
 
+  // the diagnosis first (oval, dent), then what made the fit poor
   const flags: HoleFlag[] = [];
-  if (count < limits.minPoints) flags.push('few-points');
-  if (coverage < limits.minArcDeg) flags.push('short-arc');
-  if (circle.rms > limits.maxRmsMm) flags.push('high-rms');
-  if (circle.roundness > limits.maxRoundnessMm) flags.push('out-of-round');
   if (ovalityMm > limits.maxOvalityMm) flags.push('oval');
   if (isDent) flags.push('dent');
+  if (circle.roundness > limits.maxRoundnessMm) flags.push('out-of-round');
+  if (circle.rms > limits.maxRmsMm) flags.push('high-rms');
+  if (coverage < limits.minArcDeg) flags.push('short-arc');
+  if (count < limits.minPoints) flags.push('few-points');
 
   // polar bins
   const angleDeg: number[] = [];

@@ -84,7 +84,8 @@ export function holeResult(h: FittedHole): HoleResult {
     noiseMm: h.quality.noiseMm,
     flags: [...h.quality.flags],
     polar: h.quality.polar,
-    sizes: snapHoleSize(h.diameterMm),
+    // a standard size only where one is near: a bore is no bolt hole
+    sizes: snapHoleSize(h.diameterMm).filter((z) => Math.abs(z.differenceMm) <= Math.max(1, 0.1 * h.diameterMm)),
   };
 }
 

@@ -38,8 +38,8 @@ export async function seedDemoWorkflow(db: Db, makeFiles: MakeFiles): Promise<st
   const final = demoSpec();
 
   const p1 = await createPlate(db, designer, project.id, { partNumber: 'PW-0001', title: 'H4 to C5 adapter plate', material: '6061-T651 aluminium' });
-  // rev 1: the first cut of the plate, 10 mm thick — released, later superseded
-  const rev1Spec: PlateSpec = { ...final, thicknessMm: 10 };
+  // rev 1: the first layout with a generous edge margin — released for a trial fit, later superseded
+  const rev1Spec: PlateSpec = { ...final, outline: { ...final.outline, edgeMarginMm: 16 } } as PlateSpec;
   const r1 = await saveRevision(db, designer, p1.id, { spec: rev1Spec, message: 'First layout from the measured flanges.', parentRevisionId: null });
   await submitRevision(db, designer, r1.id, 'Both patterns measured twice; please check the starter clearance.');
   await approveRevision(db, engineer, r1.id, { comment: 'Released for a trial fit in MDF before cutting aluminium.', waivers: waiversFor(r1.checks) }, makeFiles);
@@ -49,7 +49,7 @@ export async function seedDemoWorkflow(db: Db, makeFiles: MakeFiles): Promise<st
   await submitRevision(db, designer, r2.id);
   await requestChanges(db, engineer, r2.id, 'Too thick for the pilot: the input shaft barely reaches the pilot bearing. Recheck the stack-up and use the stock thickness it asks for.');
   // rev 3: the stack-up's thickness — released
-  const r3 = await saveRevision(db, designer, p1.id, { spec: final, message: 'Thickness from the stack-up calculator, snapped to stock.', parentRevisionId: r2.id });
+  const r3 = await saveRevision(db, designer, p1.id, { spec: final, message: 'Thickness back to the stack-up value (1/2 in stock); edge margin trimmed to 12 mm after the trial fit.', parentRevisionId: r2.id });
   await submitRevision(db, designer, r3.id);
   await approveRevision(db, engineer, r3.id, { comment: 'Checks reviewed. Release.', waivers: waiversFor(r3.checks) }, makeFiles);
 

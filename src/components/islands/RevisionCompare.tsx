@@ -71,6 +71,14 @@ function Compare({ revisions }: { revisions: { id: number; number: number }[] })
       <div className="flex gap-6">{sel(aId, setA, 'From')}{sel(bId, setB, 'To')}</div>
       {aId === bId && <p className="text-sm text-plate-500">Pick two different revisions.</p>}
       {cmp.error && <p role="alert" className="text-finding-error">{(cmp.error as Error).message}</p>}
+      <p className="flex flex-wrap gap-4 text-xs text-plate-700" aria-label="legend">
+        <span><span className="inline-block h-3 w-3 rounded-full border-2 border-plate-900 bg-white align-middle" /> engine face</span>
+        <span><span className="inline-block h-3 w-3 rounded-full border-2 border-brass-700 bg-amber-50 align-middle" /> transmission face</span>
+        <span className="font-semibold text-emerald-700">◯ added</span>
+        <span className="font-semibold text-finding-error">◯ removed</span>
+        <span className="font-semibold text-finding-warning">◯ moved</span>
+        <span className="font-semibold text-purple-700">◯ changed</span>
+      </p>
       <div className="grid gap-4 md:grid-cols-2">
         <div>{pa.data && <PlateDrawing profile={pa.data} marks={marks.before} title="earlier revision" />}</div>
         <div>{pb.data && <PlateDrawing profile={pb.data} marks={marks.after} title="later revision" />}</div>

@@ -28,11 +28,63 @@ const SLASH = 47;
 const MAX_FIELDS = 32;
 const MAX_LABEL_LENGTH = 32;
 
+export type Delimiter = 'space' | 'comma' | 'semicolon';
+
+/** The delimiter of a file, from its first content line: ";" if it has one, else ",", else spaces. */
+export function delimiterOf(bytes: Uint8Array, start: number, end: number): Delimiter {
+  let comma = false;
+  for (let i = start; i < end; i++) {
+    if (bytes[i] === SEMI) return 'semicolon';
+    if (bytes[i] === COMMA) comma = true;
+  }
+  return comma ? 'comma' : 'space';
+}
+
 /**
- * Splits a line into fields. Returns the number of fields, or −(k + 1) when field k is empty
- * (two delimiters in a row). Quotes around a field are removed.
+ * Splits a line into fields. With 'space', runs of spaces and tabs separate (and a single comma
+ * or semicolon between values is accepted too); with 'comma' or 'semicolon', only that character
+ * separates and spaces around a field are trimmed ("X [mm]" stays one field, and in a
+ * semicolon file "1,5" stays one — a decimal comma). Returns the number of fields, or −(k + 1)
+ * when field k is empty. Quotes around a field are removed.
  */
-export function splitFields(bytes: Uint8Array, start: number, end: number, starts: Int32Array, ends: Int32Array, commaIsDelimiter = true): number {
+export function splitFields(bytes: Uint8Array, start: number, end: number, starts: Int32Array, ends: Int32Array, delimiter: Delimiter = 'space'): number {
+  if (delimiter === 'space') return splitOnSpace(bytes, start, end, starts, ends);
+  const sep = delimiter === 'comma' ? COMMA : SEMI;
+  let count = 0;
+  let i = start;
+  while (i <= end) {
+    // one field: up to the next separator
+    let j = i;
+    if (j < end && bytes[j] === QUOTE) {
+      j++;
+      while (j < end && bytes[j] !== QUOTE) j++;
+      j++;
+    }
+    while (j < end && bytes[j] !== sep) j++;
+    let s = i;
+    let e = j;
+    while (s < e && (bytes[s] === SPACE || bytes[s] === TAB)) s++;
+    while (e > s && (bytes[e - 1] === SPACE || bytes[e - 1] === TAB)) e--;
+    if (e - s >= 2 && bytes[s] === QUOTE && bytes[e - 1] === QUOTE) {
+      s++;
+      e--;
+    }
+    if (count >= MAX_FIELDS) return count;
+    if (s === e) {
+      // an empty last field (a trailing separator) is allowed; an empty field elsewhere is not
+      if (j >= end && count > 0) return count;
+      if (j >= end && count === 0) return 0;
+      return -(count + 1);
+    }
+    starts[count] = s;
+    ends[count] = e;
+    count++;
+    i = j + 1;
+  }
+  return count;
+}
+
+function splitOnSpace(bytes: Uint8Array, start: number, end: number, starts: Int32Array, ends: Int32Array): number {
   let count = 0;
   let i = start;
   let delimiters = 0;
@@ -42,7 +94,7 @@ export function splitFields(bytes: Uint8Array, start: number, end: number, start
       i++;
       continue;
     }
-    if ((c === COMMA && commaIsDelimiter) || c === SEMI) {
+    if (c === COMMA || c === SEMI) {
       delimiters++;
       if (delimiters > (count === 0 ? 0 : 1)) return -(count + 1);
       i++;
@@ -60,7 +112,7 @@ export function splitFields(bytes: Uint8Array, start: number, end: number, start
       let j = i;
       while (j < end) {
         const d = bytes[j]!;
-        if (d === SPACE || d === TAB || (d === COMMA && commaIsDelimiter) || d === SEMI) break;
+        if (d === SPACE || d === TAB || d === COMMA || d === SEMI) break;
         j++;
       }
       starts[count] = i;
@@ -140,8 +192,8 @@ export class TextPointParser implements StreamParser {
   private columns: TextColumns | null = null;
   private minFields = 3;
   private currentLine = 0;
-  /** a file whose first content line uses ";" separates with ";" only: "1,5" is then a decimal comma */
-  private commaIsDelimiter: boolean | null = null;
+  /** from the first content line (see `delimiterOf`) */
+  private delimiter: Delimiter | null = null;
 
   constructor(
     private readonly format: 'xyz' | 'csv',
@@ -163,12 +215,8 @@ export class TextPointParser implements StreamParser {
     this.currentLine = line;
     if (isComment(bytes, start, end)) return;
     const { starts, ends } = this;
-    if (this.commaIsDelimiter === null) {
-      let semicolon = false;
-      for (let i = start; i < end; i++) if (bytes[i] === SEMI) semicolon = true;
-      this.commaIsDelimiter = !semicolon;
-    }
-    const count = splitFields(bytes, start, end, starts, ends, this.commaIsDelimiter);
+    this.delimiter ??= delimiterOf(bytes, start, end);
+    const count = splitFields(bytes, start, end, starts, ends, this.delimiter);
     if (count < 0) {
       throw new MeasureFileError('measure.columns', `Line ${line}, column ${-count} is empty (two separators in a row).`, { line, byteOffset });
     }

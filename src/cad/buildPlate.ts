@@ -19,6 +19,7 @@ import type { OpenCascadeInstance, TopoDS_Edge, TopoDS_Face, TopoDS_Shape, TopoD
 import type { OutlineSegment, PlateProfile } from '../domain/profileTypes';
 import { arcSweepRad, pointInChain } from '../domain/exports/outlineMath';
 import { layoutIsDisjoint } from '../domain/checks';
+import { canonicalJson } from '../domain/canonicalJson';
 import { analyticVolumeMm3 } from './analyticVolume';
 import { describeKernelFailure, PlateBuildError } from './errors';
 import { offsetOutlineInward } from './offsetOutline';
@@ -730,15 +731,4 @@ export class PlateCache {
 /** Canonical JSON (sorted keys) of a profile: equal profiles give equal keys. */
 export function profileKey(profile: PlateProfile): string {
   return canonicalJson(profile);
-}
-
-export function canonicalJson(v: unknown): string {
-  if (v === null || typeof v !== 'object') return JSON.stringify(v) ?? 'null';
-  if (Array.isArray(v)) return `[${v.map(canonicalJson).join(',')}]`;
-  const o = v as Record<string, unknown>;
-  return `{${Object.keys(o)
-    .filter((k) => o[k] !== undefined)
-    .sort()
-    .map((k) => `${JSON.stringify(k)}:${canonicalJson(o[k])}`)
-    .join(',')}}`;
 }

@@ -1,7 +1,6 @@
 /**
- * Where the part number and revision are engraved: the free spot nearest the bottom edge on the
- * plate's vertical centre line, clear of every feature, the pockets and the outline (with a
- * margin). Pure; the DXF, SVG and drawing all place it the same way.
+ * Where the part number and revision are engraved: the lowest free spot, nearest the plate's
+ * vertical centre line, clear of every feature, the pockets and the outline (with a margin). Pure; the DXF, SVG and drawing all place it the same way.
  */
 import type { PlateProfile, Point2 } from '../profileTypes';
 import { chainPolygon, distanceToSegmentMm, pointInChain } from './outlineMath';
@@ -68,15 +67,16 @@ export function placeEngraving(profile: PlateProfile, text: string, heightMm = 5
     return true;
   };
 
-  const target = { x: (minX + maxX) / 2, y: minY };
+  // lowest free row first, and in a row the spot nearest the vertical centre line
+  const cx0 = (minX + maxX) / 2;
   const step = 2.5;
-  const candidates: Point2[] = [];
+  const reach = (maxX - minX - w) / 2;
   for (let y = minY + h / 2; y <= maxY - h / 2; y += step) {
-    for (let x = minX + w / 2; x <= maxX - w / 2; x += step) candidates.push({ x, y });
-  }
-  candidates.sort((a, b) => Math.hypot(a.x - target.x, a.y - target.y) - Math.hypot(b.x - target.x, b.y - target.y));
-  for (const c of candidates) {
-    if (fits(c.x, c.y)) return { text, x: round(c.x), y: round(c.y), heightMm: h, widthMm: w };
+    for (let i = 0; i * step <= reach + 1e-9; i++) {
+      for (const x of i === 0 ? [cx0] : [cx0 + i * step, cx0 - i * step]) {
+        if (fits(x, y)) return { text, x: round(x), y: round(y), heightMm: h, widthMm: w };
+      }
+    }
   }
   return null;
 }

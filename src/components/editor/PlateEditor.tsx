@@ -225,12 +225,24 @@ export default function PlateEditor(props: PlateEditorProps) {
 
   const draftLabel = base && !dirty && base.status === 'approved' ? `rev ${base.number}` : 'DRAFT';
   const fileBase = `${plate.partNumber}-${base && !dirty && base.status === 'approved' ? `rev${base.number}` : 'DRAFT-not-released'}`;
-  const exportFile = async (kind: 'dxf' | 'svg' | 'csv' | 'pdf') => {
+  const exportFile = async (kind: 'dxf' | 'svg' | 'csv' | 'pdf' | 'step') => {
     const p = evaluation?.profile;
     if (!p || !doc) return setToast({ text: 'Fix the marked fields first: the plate cannot be laid out, so there is nothing to export.', bad: true });
     if (kind === 'dxf') download(`${fileBase}.dxf`, plateDxf(p, { partNumber: plate.partNumber, revision: draftLabel }), 'application/dxf');
     if (kind === 'svg') download(`${fileBase}.svg`, plateSvg(p, { partNumber: plate.partNumber, revision: draftLabel }), 'image/svg+xml');
     if (kind === 'csv') download(`${fileBase}-holes.csv`, holeTableCsv(p), 'text/csv');
+    if (kind === 'step') {
+      setToast({ text: 'Building the STEP file in the CAD kernel…' });
+      try {
+        const { getKernel } = await import('~/cad/kernelClient');
+        const k = await getKernel();
+        const bytes = await k.step(p, { partNumber: plate.partNumber, revision: draftLabel, timestampIso: new Date().toISOString() });
+        download(`${fileBase}.step`, bytes as BlobPart, 'model/step');
+        setToast({ text: `STEP file ready (${draftLabel}).` });
+      } catch (e) {
+        setToast({ text: `The STEP file could not be made: ${e instanceof Error ? e.message : String(e)}`, bad: true });
+      }
+    }
     if (kind === 'pdf') {
       const r = await fetch(`/api/plates/${plate.id}/preview/drawing.pdf`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ spec: doc, basedOnRevisionId: base?.id ?? null }) });
       if (!r.ok) {
@@ -404,7 +416,7 @@ function FaceHeader({ doc, face, commit, readOnly }: { doc: PlateSpecInput; face
   );
 }
 
-function ExportMenu({ onExport }: { onExport(kind: 'dxf' | 'svg' | 'csv' | 'pdf'): void }) {
+function ExportMenu({ onExport }: { onExport(kind: 'dxf' | 'svg' | 'csv' | 'pdf' | 'step'): void }) {
   const [open, setOpen] = useState(false);
   return (
     <div className="relative">
@@ -412,10 +424,9 @@ function ExportMenu({ onExport }: { onExport(kind: 'dxf' | 'svg' | 'csv' | 'pdf'
       {open && (
         <div role="menu" className="absolute right-0 z-30 mt-1 w-72 rounded border border-plate-300 bg-white p-1 shadow-lg" onClick={() => setOpen(false)}>
           <p className="px-3 py-1 text-xs font-bold text-finding-error">Files of the current state are DRAFT — not released.</p>
-          {([['dxf', 'DXF cut file (2D, mm)'], ['pdf', 'Drawing PDF'], ['svg', 'SVG preview'], ['csv', 'Hole table CSV']] as const).map(([k, l]) => (
+          {([['dxf', 'DXF cut file (2D, mm)'], ['step', 'STEP solid (3D, for CAM)'], ['pdf', 'Drawing PDF'], ['svg', 'SVG preview'], ['csv', 'Hole table CSV']] as const).map(([k, l]) => (
             <button key={k} role="menuitem" type="button" className="block w-full rounded px-3 py-2 text-left hover:bg-plate-100" data-export={k} onClick={() => onExport(k)}>{l}</button>
           ))}
-          <p className="px-3 py-1 text-xs text-plate-500">STEP (3D): from the 3D view.</p>
         </div>
       )}
     </div>

@@ -51,7 +51,7 @@ run_suite() {
   rm -f "$out"
   if npx vitest run --config "$config" --reporter=default --reporter=json --outputFile.json="$out"; then :; else status=1; fi
   if [ -f "$out" ]; then
-    summary+=("$name: $(node -e 'const r=require(process.argv[1]);console.log(`${r.numPassedTests} passed, ${r.numFailedTests} failed`)' "$ROOT/$out")")
+    summary+=("$name: $(node scripts/test-summary.cjs "$out")")
   else
     summary+=("$name: did not run"); status=1
   fi
@@ -62,8 +62,5 @@ run_suite e2e vitest.e2e.config.ts
 
 say "finished in $(( $(date +%s) - started )) s"
 for s in "${summary[@]}"; do say "$s"; done
-node -e '
-  const fs=require("fs");let p=0,f=0;
-  for (const n of ["unit","integration","e2e"]) { try { const r=JSON.parse(fs.readFileSync(`.test-artifacts/${n}-results.json`,"utf8")); p+=r.numPassedTests; f+=r.numFailedTests; } catch {} }
-  console.log(`${p} passed, ${f} failed`);'
+node scripts/test-summary.cjs .test-artifacts/unit-results.json .test-artifacts/integration-results.json .test-artifacts/e2e-results.json
 exit $status

@@ -204,6 +204,55 @@ describe('buildPlate — volume, bounding box and faces against hand computation
   });
 });
 
+describe('buildPlate — more outlines and pocket sides', () => {
+  it('through holes standing in a transmission-side pocket floor, one counterbored from the engine side', () => {
+    const p: PlateProfile = makeProfile({
+      thicknessMm: 12,
+      edgeChamferMm: 0,
+      outline: roundedRectangle(160, 120, 10),
+      holes: [
+        { id: 'H1', face: 'plate', operation: 'through', center: { x: 20, y: 0 }, diameterMm: 8, depthMm: null, fromSide: 'engine' },
+        { id: 'H2', face: 'plate', operation: 'through', center: { x: -20, y: 0 }, diameterMm: 8, depthMm: null, fromSide: 'engine',
+          counterbore: { diameterMm: 14, depthMm: 4, fromSide: 'engine' } },
+      ],
+      pockets: [{ id: 'P1', outline: slot({ x: 0, y: 0 }, 80, 30, 0), depthMm: 3, fromSide: 'transmission', areaMm2: 50 * 30 + PI * 225 }],
+    });
+    // hand: blank − pocket − H1 below the pocket floor − H2 counterbore and hole between its floor and the pocket's
+    const hand = rrArea(160, 120, 10) * 12 - (50 * 30 + PI * 15 ** 2) * 3 - PI * 4 ** 2 * (12 - 3) - PI * 7 ** 2 * 4 - PI * 4 ** 2 * (12 - 4 - 3);
+    for (const strategy of ['direct', 'oneFace'] as const) {
+      const plate = buildPlate(oc, p, { strategy });
+      try {
+        expect(plate.verification.valid).toBe(true);
+        expect(Math.abs(plate.verification.volumeMm3 - hand) / hand).toBeLessThan(1e-9);
+      } finally {
+        plate.dispose();
+      }
+    }
+  });
+
+  it('a round plate (the outline one full circle) with a chamfer', () => {
+    const p: PlateProfile = makeProfile({
+      thicknessMm: 10,
+      edgeChamferMm: 1,
+      outline: [{ kind: 'arc', start: { x: 100, y: 0 }, end: { x: 100, y: 0 }, center: { x: 0, y: 0 }, radiusMm: 100, ccw: true }],
+      holes: [{ id: 'C1', face: 'plate', operation: 'centreBore', center: { x: 0, y: 0 }, diameterMm: 40, depthMm: null, fromSide: 'engine' }],
+      pockets: [],
+    });
+    // hand: A·t − P·c² + ⅔·π·c³ with A = π·100², P = 2π·100, minus the bore
+    const hand = PI * 1e4 * 10 - 2 * PI * 100 + (2 / 3) * PI - PI * 20 ** 2 * 10;
+    for (const strategy of ['direct', 'oneFace'] as const) {
+      const plate = buildPlate(oc, p, { strategy });
+      try {
+        expect(plate.verification.valid).toBe(true);
+        expect(Math.abs(plate.verification.volumeMm3 - hand) / hand).toBeLessThan(1e-9);
+        expect(plate.verification.cylindricalFaces).toBe(2);
+      } finally {
+        plate.dispose();
+      }
+    }
+  });
+});
+
 describe('buildPlate — actionable errors', () => {
   it('a counterbore breaking through the outline names the hole', () => {
     let err: unknown;

@@ -164,6 +164,15 @@ describe('plate editor in Chromium', () => {
     expect(badPdf.status()).toBe(400);
     expect((await badPdf.json()).error.message).toMatch(/thicknessMm/);
 
+    // 3D: the kernel's solid from the worker, rebuilt after an edit; STEP from the same solid
+    await page.getByRole('tab', { name: '3D' }).click();
+    await page.locator('[data-testid="plate-3d"][data-source="kernel"]').waitFor({ timeout: 90_000 });
+    await page.getByRole('tab', { name: 'Drawing' }).click();
+    await page.getByTestId('export-button').click();
+    const [step] = await Promise.all([page.waitForEvent('download', { timeout: 60_000 }), page.locator('[data-export="step"]').click()]);
+    expect(step.suggestedFilename()).toMatch(/DRAFT-not-released\.step$/);
+    expect(readFileSync((await step.path())!, 'latin1').slice(0, 13)).toBe('ISO-10303-21;');
+
     await page.goto(`${base}/plates/${plateId}`);
     expect(await page.getByTestId('timeline').innerText()).toMatch(/rev 2/);
     expect(errors).toEqual([]);

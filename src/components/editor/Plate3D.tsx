@@ -7,7 +7,7 @@ import { getKernel, progressFraction, type KernelProgress } from '~/cad/kernelCl
 import type { PlateMesh } from '~/cad/mesh';
 
 /** Rebuild this long after the last edit, so typing is never held up by the 3D view. */
-export const REBUILD_DEBOUNCE_MS = 250;
+export const REBUILD_DEBOUNCE_MS = 150;
 
 function addChain(path: THREE.Path, chain: readonly OutlineSegment[]): void {
   chain.forEach((s, i) => {

@@ -152,3 +152,17 @@ describe('bad files say where they are wrong', () => {
     expect(formatFromFileName('mesh.obj')).toBeNull();
   });
 });
+
+describe('committed samples', () => {
+  it('are exactly what scripts/make-measure-fixtures.ts makes, and each one reads', async () => {
+    const { readFileSync } = await import('node:fs');
+    const { measureSamples } = await import('../../fixtures/measure/samples');
+    for (const [name, bytes] of Object.entries(measureSamples())) {
+      const committed = new Uint8Array(readFileSync(new URL(`../../fixtures/measure/samples/${name}`, import.meta.url)));
+      expect(committed.length, name).toBe(bytes.length);
+      expect(Buffer.compare(Buffer.from(committed), Buffer.from(bytes)), `${name} differs from the generator: run npx tsx scripts/make-measure-fixtures.ts`).toBe(0);
+      const r = parseMeasureFile(committed, { fileName: name });
+      expect(r.count, name).toBeGreaterThan(name.startsWith('probe') ? 60 : 1000);
+    }
+  });
+});

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { statSync } from 'node:fs';
 import { APPROX_WASM_BYTES, progressFraction } from '../../../src/cad/kernelClient';
 
 describe('kernel progress for the bar', () => {
@@ -10,5 +11,9 @@ describe('kernel progress for the bar', () => {
     expect(progressFraction({ phase: 'download', loadedBytes: APPROX_WASM_BYTES / 2, totalBytes: null })).toBeCloseTo(0.45, 12);
     expect(progressFraction({ phase: 'starting' })).toBe(0.95);
     expect(progressFraction({ phase: 'ready', ms: 800 })).toBe(1);
+  });
+
+  it('the stand-in size is the shipped wasm file size', () => {
+    expect(APPROX_WASM_BYTES).toBe(statSync('node_modules/replicad-opencascadejs/dist/replicad_single.wasm').size);
   });
 });

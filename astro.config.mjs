@@ -5,6 +5,8 @@ import react from '@astrojs/react';
 import tailwindcss from '@tailwindcss/vite';
 
 export default defineConfig({
+  // PLATEWRIGHT_DIST lets test runs build beside the app's own dist/ without touching it
+  outDir: process.env.PLATEWRIGHT_DIST ?? './dist',
   output: 'server',
   adapter: node({ mode: 'standalone' }),
   integrations: [react()],

@@ -44,11 +44,12 @@ ensure_node_modules() {
 # ensure_build — astro build when sources are newer than the last build.
 ensure_build() {
   cd "$ROOT"
-  local marker="dist/.platewright-build"
-  if [ -f "$marker" ] && [ -z "$(find src public templates astro.config.mjs package-lock.json -newer "$marker" -print -quit 2>/dev/null)" ]; then
+  local dist="${PLATEWRIGHT_DIST:-dist}"
+  local marker="$dist/.platewright-build"
+  if [ -f "$marker" ] && [ -z "$(find src public templates astro.config.mjs package-lock.json scripts/lib.sh -newer "$marker" -print -quit 2>/dev/null)" ]; then
     return 0
   fi
   say "building the app"
-  npx astro build >/tmp/platewright-build.log 2>&1 || { tail -40 /tmp/platewright-build.log >&2; die "build failed (log above)"; }
+  npx astro build >"/tmp/platewright-build-$$.log" 2>&1 || { tail -40 "/tmp/platewright-build-$$.log" >&2; die "build failed (log above)"; }
   touch "$marker"
 }

@@ -11,6 +11,8 @@ export DB_NAME="${TEST_DB_NAME:-platewright_test}"
 export DB_USER=platewright DB_PASSWORD=platewright-test
 export TEST_APP_PORT="${TEST_APP_PORT:-4327}"
 export NODE_ENV=test
+# The test run's own build, beside the app's dist/ (several runs at once never share one).
+export PLATEWRIGHT_DIST="${PLATEWRIGHT_DIST:-$ROOT/.data/dist-test-$TEST_APP_PORT}"
 unset DATABASE_URL
 # Mail goes to a local catcher of the test run's own (port + folder), never to a real server.
 export MAIL_FAKE_PORT="${MAIL_FAKE_PORT:-2527}"

@@ -1,6 +1,7 @@
 import { defineMiddleware, sequence } from 'astro:middleware';
 import { authConfig, ConfigError } from './server/config';
 import { identify } from './server/auth/session';
+import { withSecurityHeaders } from './server/securityHeaders';
 
 // Works out WHO is asking (locals.user / locals.session) and nothing else: every page and endpoint
 // enforces its own rule with requireRole / requirePageRole (src/server/auth/guard.ts).
@@ -38,4 +39,7 @@ const who = defineMiddleware(async (ctx, next) => {
   return next();
 });
 
-export const onRequest = sequence(settings, who);
+/** Security headers on every answer (CSP, nosniff, referrer policy, no framing). */
+const secure = defineMiddleware(async (_ctx, next) => withSecurityHeaders(await next()));
+
+export const onRequest = sequence(secure, settings, who);

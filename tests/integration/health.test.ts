@@ -42,3 +42,20 @@ describe('/api/health on the built server', () => {
     expect(again.body).toMatchObject({ ok: true, db: 'up' });
   });
 });
+
+describe('security headers on the built server', () => {
+  it('pages carry the CSP (wasm allowed, no inline script, no framing), nosniff and a referrer policy', async () => {
+    const r = await fetch(`${server.baseUrl}/`);
+    const csp = r.headers.get('content-security-policy') ?? '';
+    expect(csp).toContain("'wasm-unsafe-eval'");
+    expect(csp).toContain("frame-ancestors 'none'");
+    expect(csp.split('; ').find((d) => d.startsWith('script-src'))).not.toMatch(/unsafe-inline|'unsafe-eval'/);
+    expect(r.headers.get('x-content-type-options')).toBe('nosniff');
+    expect(r.headers.get('referrer-policy')).toBe('strict-origin-when-cross-origin');
+    const api = await fetch(`${server.baseUrl}/api/me`);
+    expect(api.status).toBe(401);
+    expect(api.headers.get('x-content-type-options')).toBe('nosniff');
+    const body = await api.text();
+    expect(body).not.toMatch(/\bat .+:\d+:\d+/); // no stack trace
+  });
+});

@@ -12,7 +12,7 @@ export interface RunningServer {
 /** Start the built app (dist/server/entry.mjs) against the test database and wait until it answers. */
 export async function startServer(port: number, env: Record<string, string> = {}): Promise<RunningServer> {
   let log = '';
-  const child: ChildProcess = spawn(process.execPath, ['dist/server/entry.mjs'], {
+  const child: ChildProcess = spawn(process.execPath, [`${process.env.PLATEWRIGHT_DIST ?? 'dist'}/server/entry.mjs`], {
     cwd: ROOT,
     env: { ...process.env, HOST: '127.0.0.1', PORT: String(port), ...env },
     stdio: ['ignore', 'pipe', 'pipe'],

@@ -260,13 +260,6 @@ function facesOf(k: Kit, shape: TopoDS_Shape): TopoDS_Face[] {
   return childShapes(k, shape, 'face').map((f) => k.s.own(k.oc.TopoDS.Face(f)));
 }
 
-function wireOf(k: Kit, edges: readonly TopoDS_Edge[]): TopoDS_Wire {
-  const mk = k.s.own(new k.oc.BRepBuilderAPI_MakeWire());
-  for (const e of edges) mk.Add(e);
-  if (!mk.IsDone()) throw new Error('a wire could not be closed');
-  return k.s.own(mk.Wire());
-}
-
 function reversedWire(k: Kit, w: TopoDS_Wire): TopoDS_Wire {
   return k.s.own(k.oc.TopoDS.Wire(k.s.own(w.Reversed())));
 }

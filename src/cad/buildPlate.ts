@@ -3,11 +3,13 @@
  * gives the same solid; nothing is read from outside, nothing is kept except by the cache below.
  *
  * Strategies
- *  - direct B-rep (primary, when the 2D layout is disjoint): the chamfered side wall is one ruled
- *    shell through the outline wires (inset at the faces, full in between); every round feature's
- *    wall is a cylindrical face, every pocket wall a prism of its outline; the two plate faces are
- *    planar faces with the features as inner wires; counterbore, blind-hole and pocket floors are
- *    planar faces. All faces are sewn into one shell and closed into a solid. No boolean runs.
+ *  - direct B-rep (primary, when the 2D layout is disjoint): the chamfered side wall is two ruled
+ *    bands (inset outline at a plate face to the full outline) and a prism between them; every
+ *    round feature's wall is a cylindrical face, every pocket wall a prism of its outline; the two
+ *    plate faces are planar faces with the openings as inner wires; counterbore steps, blind-hole
+ *    and pocket floors are planar faces (through holes in a pocket open into its floor). Every face
+ *    is made once with its normal out of the material, neighbours share their edges, and the faces
+ *    go straight into one shell and a solid: no sewing, no boolean.
  *  - one-face fallback: the outline face with every plain through hole as an inner wire is
  *    extruded once (or, with an edge chamfer, the ruled blank is made), then ONE cut removes all
  *    other features, each given as a separate tool (never a compound of overlapping solids).

@@ -72,7 +72,8 @@ describe('measurements in Chromium', () => {
     await page.getByRole('button', { name: 'Upload' }).click();
     const plane = page.getByTestId('plane-summary');
     await plane.waitFor({ timeout: 60_000 });
-    expect(await plane.innerText()).toMatch(/Face plane from [\d,]+ of [\d,]+ points · flatness 0\.\d{3} mm/);
+    const planeText = await plane.innerText();
+    expect(planeText).toMatch(/Face plane from [\d,]+ of [\d,]+ points · flatness 0\.\d{3} mm/);
     await expect.poll(() => page.getByTestId('uploads-table').locator('tbody tr').count()).toBe(1);
     expect(await page.getByTestId('uploads-table').innerText()).toMatch(new RegExp(`bell-face-scan\\.ply\\s+[\\d.]+ MB\\s+PLY binary\\s+${pointCount.toLocaleString('en-GB')}\\s+mm\\s+Builder Tester`));
     await page.screenshot({ path: `${SHOTS}/measurements-1-face.png`, fullPage: true });
@@ -115,6 +116,12 @@ describe('measurements in Chromium', () => {
     await saved.waitFor({ timeout: 30_000 });
     expect(await saved.innerText()).toMatch(/Saved as draft revision 2/);
     await page.screenshot({ path: `${SHOTS}/measurements-3-applied.png`, fullPage: true });
+
+    // later: open the stored upload again (the worker reads it from the server)
+    await page.reload();
+    await page.getByTestId('uploads-table').getByRole('button', { name: 'Open' }).click();
+    await page.getByTestId('plane-summary').waitFor({ timeout: 60_000 });
+    expect(await page.getByTestId('plane-summary').innerText()).toBe(planeText);
     expect(problems).toEqual([]);
     await context.close();
 

@@ -11,7 +11,7 @@ import { createRequire } from 'node:module';
 import fontkit from '@pdf-lib/fontkit';
 import { PDFDocument, type PDFFont, type PDFPage, rgb, degrees, LineCapStyle } from 'pdf-lib';
 import type { Finding } from '../../domain/checks';
-import type { PlateProfile, ProfileHole } from '../../domain/profileTypes';
+import type { PlateProfile } from '../../domain/profileTypes';
 import { holeTable, type HoleTableRow } from '../../domain/exports/holeTable';
 import { chainPathData } from '../../domain/exports/svg';
 import { chainBounds } from '../../domain/exports/outlineMath';
@@ -212,10 +212,9 @@ function scaleLabel(s: number): string {
   return s >= 1 ? `${s}:1` : `1:${Math.round((1 / s) * 10) / 10}`;
 }
 
-function toleranceText(r: HoleTableRow, thicknessMm: number): string {
+function toleranceText(r: HoleTableRow): string {
   if (r.fit) return `${r.fit.designation} ${mm3(r.fit.lowerMm)} / ${mm3(r.fit.upperMm)}`;
   if (r.operation === 'tapDrill') return r.thread && /UN/i.test(r.thread) ? '2B' : '6H';
-  void thicknessMm;
   return 'ISO 2768-m';
 }
 
@@ -237,7 +236,7 @@ const TABLE_COLUMNS: { title: string; w: number; align: 'left' | 'right'; get: (
   { title: 'SIDE', w: 36, align: 'left', get: (r) => (r.side === 'engine' ? 'engine' : 'trans.') },
   { title: 'THREAD', w: 70, align: 'left', get: (r) => threadText(r) },
   { title: 'DEPTH', w: 34, align: 'right', get: (r) => depthText(r) },
-  { title: 'TOL. / FIT LIMITS', w: 84, align: 'left', get: (r, t) => toleranceText(r, t) },
+  { title: 'TOL. / FIT LIMITS', w: 84, align: 'left', get: (r) => toleranceText(r) },
 ];
 const TABLE_WIDTH = TABLE_COLUMNS.reduce((a, c) => a + c.w, 0);
 const ROW_H = 10;
@@ -531,4 +530,3 @@ export async function drawingPdf(input: DrawingInput): Promise<Uint8Array> {
   return doc.save({ useObjectStreams: false });
 }
 
-export type { ProfileHole };

@@ -28,12 +28,15 @@ const settings = defineMiddleware((_ctx, next) => {
 const who = defineMiddleware(async (ctx, next) => {
   ctx.locals.user = null;
   ctx.locals.session = null;
+  ctx.locals.sessionUnavailable = false;
   try {
     const found = await identify(ctx.cookies);
     ctx.locals.user = found.user;
     ctx.locals.session = found.session;
   } catch (err) {
-    // Database unreachable: treat the caller as anonymous for this request and keep the cookie.
+    // Database unreachable: treat the caller as anonymous for this request and keep the cookie;
+    // guarded routes answer 503 (not 401) so nobody is sent to sign in again for nothing.
+    ctx.locals.sessionUnavailable = !!ctx.cookies.get('platewright_session')?.value;
     console.error(`[platewright] could not check the session: ${err instanceof Error ? err.message : String(err)}`);
   }
   return next();

@@ -1,7 +1,10 @@
 import type { AstroGlobal, APIContext } from 'astro';
 import type { Role } from '../db/schema';
 import type { SessionUser } from './types';
-import { jsonError } from '../http';
+import { json, jsonError } from '../http';
+
+const databaseUnavailable = () =>
+  json({ error: { code: 'database_unavailable', message: 'The database is not reachable right now; nothing was changed. Try again in a moment.' } }, 503, { 'retry-after': '5' });
 
 type WithLocals = Pick<APIContext, 'locals'>;
 
@@ -13,6 +16,7 @@ export type Guarded = { ok: true; user: SessionUser } | { ok: false; response: R
  */
 export function requireRole(locals: WithLocals['locals'], ...roles: Role[]): Guarded {
   const user = locals.user;
+  if (!user && locals.sessionUnavailable) return { ok: false, response: databaseUnavailable() };
   if (!user) return { ok: false, response: jsonError(401, 'unauthenticated', 'Sign in first.') };
   if (roles.length > 0 && !roles.includes(user.role)) {
     return { ok: false, response: jsonError(403, 'forbidden', `This needs the role ${roles.join(' or ')}; you are signed in as ${user.role}.`) };
@@ -26,6 +30,15 @@ export function requireRole(locals: WithLocals['locals'], ...roles: Role[]): Gua
  */
 export function requirePageRole(astro: Pick<AstroGlobal, 'locals' | 'url' | 'redirect'>, ...roles: Role[]): Guarded {
   const user = astro.locals.user;
+  if (!user && astro.locals.sessionUnavailable) {
+    return {
+      ok: false,
+      response: new Response('<!doctype html><meta charset="utf-8"><title>Platewright — database unavailable</title><p style="font-family:sans-serif">The database is not answering right now; nothing was changed. Try again in a moment.</p>', {
+        status: 503,
+        headers: { 'content-type': 'text/html; charset=utf-8', 'retry-after': '5' },
+      }),
+    };
+  }
   if (!user) {
     const next = astro.url.pathname + astro.url.search;
     return { ok: false, response: astro.redirect(`/sign-in?next=${encodeURIComponent(next)}`, 302) };

@@ -8,6 +8,12 @@ import { DomainError } from '../errors';
 export type Points2 = readonly { readonly x: number; readonly y: number }[] | Float64Array;
 export type Points3 = readonly { readonly x: number; readonly y: number; readonly z: number }[] | Float64Array;
 
+/**
+ * Largest coordinate magnitude a fit accepts (1000 km in mm): beyond it the sums of squares the fits
+ * form overflow to Infinity and the result would be NaN.
+ */
+export const MAX_COORDINATE = 1e12;
+
 /** Flattens and validates points; a Float64Array is checked in place, not copied. */
 export function flatPoints(points: Points2 | Points3, dims: 2 | 3, what: string, minPoints = 3): Float64Array {
   let flat: Float64Array;
@@ -34,6 +40,15 @@ export function flatPoints(points: Points2 | Points3, dims: 2 | 3, what: string,
     throw new DomainError('fit.input', `${what}: expected an array of points or an interleaved Float64Array.`);
   }
   for (let i = 0; i < flat.length; i++) {
+    if (Number.isFinite(flat[i]!) && Math.abs(flat[i]!) > MAX_COORDINATE) {
+      const index = Math.floor(i / dims);
+      const axis = 'xyz'[i % dims]!;
+      throw new DomainError(
+        'fit.outOfRange',
+        `${what}: point ${index} has ${axis} = ${String(flat[i])}, beyond ±${MAX_COORDINATE.toExponential(0)}; check the file's units and columns.`,
+        ['points', index, axis],
+      );
+    }
     if (!Number.isFinite(flat[i]!)) {
       const index = Math.floor(i / dims);
       const axis = 'xyz'[i % dims]!;

@@ -86,10 +86,33 @@ describe('measurements in Chromium', () => {
     expect(table.match(/\bdented\b/g)?.length).toBe(1);
     expect(table).toMatch(/M10\s+ISO 273 medium/);
 
-    // the bore sits in the middle of the face: box around it, then fit the bore
     const canvas = page.getByTestId('face-view');
     const box = (await canvas.boundingBox())!;
     const k = box.width / 640;
+
+    // a lasso around one bolt hole, drawn by hand: the face (Ø300) fills 92 % of the 640 px view
+    await page.getByRole('button', { name: 'Lasso' }).click();
+    const h1 = /H1\s+(-?\d+\.\d+), (-?\d+\.\d+)\s+(\d+\.\d+)/.exec(table)!;
+    const s = (640 * 0.92) / 300;
+    const at = (u: number, v: number) => [box.x + (320 + u * s) * k, box.y + (320 - v * s) * k] as const;
+    const [u1, v1] = [Number(h1[1]), Number(h1[2])];
+    for (let j = 0; j <= 12; j++) {
+      const t = (2 * Math.PI * j) / 12;
+      const [x, y] = at(u1 + 12 * Math.cos(t), v1 + 12 * Math.sin(t));
+      if (j === 0) {
+        await page.mouse.move(x, y);
+        await page.mouse.down();
+      } else await page.mouse.move(x, y, { steps: 2 });
+    }
+    await page.mouse.up();
+    await page.getByRole('button', { name: 'Fit hole in selection' }).click();
+    await expect.poll(() => rows.count()).toBe(12);
+    const s1 = await rows.filter({ hasText: 'S1' }).innerText();
+    expect(Math.abs(Number(/S1\s+[-\d.]+, [-\d.]+\s+(\d+\.\d+)/.exec(s1)![1]) - Number(h1[3]))).toBeLessThan(0.01);
+    await page.getByRole('checkbox', { name: 'Use S1 in the bolt pattern' }).waitFor();
+    await page.getByRole('button', { name: 'Box' }).click();
+
+    // the bore sits in the middle of the face: box around it, then fit the bore
     await page.mouse.move(box.x + (320 - 140) * k, box.y + (320 - 140) * k);
     await page.mouse.down();
     await page.mouse.move(box.x + 320 * k, box.y + 320 * k, { steps: 4 });

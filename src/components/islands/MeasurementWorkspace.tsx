@@ -392,7 +392,13 @@ function Workspace({ projectId, canEdit, plates, blankSpec }: Props) {
                       <td className="px-2 py-1.5 text-right tabular-nums">{h.n}</td>
                       <td className="px-2 py-1.5 text-right tabular-nums">{Math.round(h.arcCoverageDeg)}°</td>
                       <td className="px-2 py-1.5">{h.sizes[0] ? <>{h.sizes[0].fastener} <span className="text-plate-500">{h.sizes[0].label}</span> <span className="tabular-nums">{h.sizes[0].differenceMm >= 0 ? '+' : '−'}{f3(Math.abs(h.sizes[0].differenceMm))}</span></> : '—'}</td>
-                      <td className="px-2 py-1.5">{h.flags.length ? <span className="font-semibold text-finding-warning">{h.flags.map((f) => HOLE_FLAG_TEXT[f as HoleFlag]).join(', ')}</span> : <span className="text-plate-700">good</span>}</td>
+                      <td className="px-2 py-1.5">
+                        {h.flags.length ? <span className="font-semibold text-finding-warning">{h.flags.map((f) => HOLE_FLAG_TEXT[f as HoleFlag]).join(', ')}</span> : <span className="text-plate-700">good</span>}
+                        {(() => {
+                          const twin = holes.find((o) => o.id !== h.id && o.id < h.id && Math.hypot(o.centerU - h.centerU, o.centerV - h.centerV) < o.diameterMm / 4);
+                          return twin ? <span className="ml-1 text-plate-500">· same hole as {twin.id}</span> : null;
+                        })()}
+                      </td>
                     </tr>
                   ))}
                 </tbody>

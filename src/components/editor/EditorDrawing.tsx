@@ -179,7 +179,7 @@ function EditorDrawingInner({ profile, doc, findings, units, hovered, selected, 
           DATUM A · crank axis (0, 0)
         </text>
         {findings.map((f, i) => (f.at && (f.severity !== 'note' || selectedFinding === i) ? <FindingMark key={i} f={f} px={px} active={selectedFinding === i} /> : null))}
-        {selHole && <Dimension h={selHole} px={px} units={units} />}
+        {selHole && <Dimension h={selHole} px={px} units={units} view={v} />}
       </svg>
       <div className="absolute right-2 top-11 flex gap-1">
         <button type="button" className="rounded border border-blast-200 bg-white px-2 py-1 text-sm hover:bg-plate-100" onClick={() => setView(null)} title="Fit the plate in view">Fit</button>
@@ -257,7 +257,7 @@ function FindingMark({ f, px, active }: { f: Finding; px: number; active: boolea
 }
 
 /** The selected feature: diameter and position from the datum, as a machinist reads them. */
-function Dimension({ h, px, units }: { h: ProfileHole; px: number; units: DisplayUnits }) {
+function Dimension({ h, px, units, view }: { h: ProfileHole; px: number; units: DisplayUnits; view: View }) {
   const { x, y } = h.center;
   const r = h.diameterMm / 2;
   const fs = 14 * px;
@@ -266,16 +266,19 @@ function Dimension({ h, px, units }: { h: ProfileHole; px: number; units: Displa
     `X ${showLength(x, units)}   Y ${showLength(y, units)}`,
   ];
   if (h.counterbore) lines.push(`c'bore ⌀${showLength(h.counterbore.diameterMm, units)} × ${showLength(h.counterbore.depthMm, units)} ${h.counterbore.fromSide} side`);
-  const tx = x + r + 24 * px;
-  const ty = -y - r - 24 * px;
+  const boxW = fs * 0.62 * Math.max(...lines.map((l) => l.length)) + 8 * px;
+  // the label goes to the side of the hole with room for it, and never above the view
+  const right = x + r + 24 * px + boxW < view.x + view.w;
+  const tx = right ? x + r + 24 * px : x - r - 24 * px - boxW + 4 * px;
+  const ty = Math.max(-y - r - 24 * px, view.y + fs * 1.6);
   return (
     <g data-testid="dimension" pointerEvents="none">
       <g stroke="#10232d" strokeWidth={0.9 * px} strokeDasharray={`${4 * px} ${3 * px}`} opacity={0.7}>
         <line x1={0} y1={-y} x2={x} y2={-y} />
         <line x1={x} y1={0} x2={x} y2={-y} />
       </g>
-      <line x1={x + r * 0.7} y1={-y - r * 0.7} x2={tx} y2={ty + fs * 0.3} stroke="#10232d" strokeWidth={px} />
-      <rect x={tx - 4 * px} y={ty - fs * 1.1} width={fs * 0.62 * Math.max(...lines.map((l) => l.length)) + 8 * px} height={fs * 1.3 * lines.length + 6 * px} fill="#10232d" rx={3 * px} />
+      <line x1={x + (right ? r : -r) * 0.7} y1={-y - r * 0.7} x2={right ? tx : tx + boxW - 8 * px} y2={ty + fs * 0.3} stroke="#10232d" strokeWidth={px} />
+      <rect x={tx - 4 * px} y={ty - fs * 1.1} width={boxW} height={fs * 1.3 * lines.length + 6 * px} fill="#10232d" rx={3 * px} />
       {lines.map((l, i) => (
         <text key={i} x={tx} y={ty + i * fs * 1.3} fontSize={fs} fill="#ffffff" fontFamily="ui-monospace, monospace">
           {l}

@@ -99,7 +99,7 @@ export const HoleTable = memo(function HoleTable({ doc, face, units, issues, hov
             value={row.original.hole.role}
             disabled={readOnly}
             onChange={(e) => commit((d) => patchHole(d, face, row.original.index, roleBody(row.original.hole, e.target.value as HoleInput['role'])))}
-            className="w-full rounded-sm border border-transparent bg-transparent px-1 py-1 text-[15px] hover:border-blast-200"
+            className="w-full rounded-sm border border-transparent bg-transparent py-1 pl-0.5 pr-0 text-[14px] hover:border-blast-200"
           >
             {ROLES.map((r) => <option key={r} value={r}>{r}</option>)}
           </select>

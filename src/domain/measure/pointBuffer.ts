@@ -22,6 +22,8 @@ export interface PointBufferOptions {
 }
 
 export const DEFAULT_MAX_POINTS = 20_000_000;
+/** Largest coordinate magnitude kept: beyond it a unit conversion or a fit's sum of squares overflows to Infinity. */
+export const MAX_COORDINATE = 1e12;
 const MAX_LABELS = 1000;
 
 const scratch = new Float64Array(3);
@@ -68,6 +70,13 @@ export class PointBuffer {
     if (this.unique) {
       const found = this.find(x, y, z);
       if (found >= 0) return found;
+    }
+    if (!(Math.abs(x) <= MAX_COORDINATE && Math.abs(y) <= MAX_COORDINATE && Math.abs(z) <= MAX_COORDINATE)) {
+      const v = [x, y, z].find((c) => !(Math.abs(c) <= MAX_COORDINATE));
+      throw new MeasureFileError(
+        'measure.badNumber',
+        `A coordinate of ${String(v)} is beyond ±${MAX_COORDINATE.toExponential(0)} in the file's units${this.where()}; a scan of a flange is never that large — check the file's units and columns.`,
+      );
     }
     if (this.n >= this.maxPoints) {
       throw new MeasureFileError(

@@ -3,6 +3,10 @@ import {
   artifacts,
   auditEvents,
   invitations,
+  orders,
+  paymentEvents,
+  quotes,
+  shopSettings,
   passwordResetTokens,
   plates,
   projectMembers,
@@ -79,4 +83,25 @@ export const invitationsRelations = relations(invitations, ({ one }) => ({
 
 export const passwordResetTokensRelations = relations(passwordResetTokens, ({ one }) => ({
   user: one(users, { fields: [passwordResetTokens.userId], references: [users.id] }),
+}));
+
+export const quotesRelations = relations(quotes, ({ one, many }) => ({
+  revision: one(revisions, { fields: [quotes.revisionId], references: [revisions.id] }),
+  requestedBy: one(users, { fields: [quotes.requestedById], references: [users.id] }),
+  orders: many(orders),
+}));
+
+export const ordersRelations = relations(orders, ({ one, many }) => ({
+  quote: one(quotes, { fields: [orders.quoteId], references: [quotes.id] }),
+  revision: one(revisions, { fields: [orders.revisionId], references: [revisions.id] }),
+  customer: one(users, { fields: [orders.customerId], references: [users.id] }),
+  paymentEvents: many(paymentEvents),
+}));
+
+export const paymentEventsRelations = relations(paymentEvents, ({ one }) => ({
+  order: one(orders, { fields: [paymentEvents.orderId], references: [orders.id] }),
+}));
+
+export const shopSettingsRelations = relations(shopSettings, ({ one }) => ({
+  updatedBy: one(users, { fields: [shopSettings.updatedById], references: [users.id] }),
 }));

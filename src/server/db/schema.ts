@@ -261,3 +261,103 @@ export const signInAttempts = mysqlTable(
   },
   (t) => [index('sign_in_attempts_email_at_idx').on(t.email, t.at)],
 );
+
+// ── Quotes, orders and payment ────────────────────────────────────────────────────────────────
+// Money is BIGINT minor units (cents) with the currency beside it; never a float.
+
+/** The shop's quoting rates (one row, id 1): a document checked by shopRatesSchema (src/domain/quote). */
+export const shopSettings = mysqlTable('shop_settings', {
+  id: int('id', { unsigned: true }).primaryKey(),
+  rates: jsonDoc<unknown>('rates').notNull(),
+  updatedById: varchar('updated_by_id', { length: 40 }).references(() => users.id),
+  updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+});
+
+export const QUOTE_STATES = ['open', 'accepted'] as const;
+export type QuoteState = (typeof QUOTE_STATES)[number];
+
+export const quotes = mysqlTable(
+  'quotes',
+  {
+    id: pk(),
+    revisionId: idRef('revision_id')
+      .notNull()
+      .references(() => revisions.id),
+    /** the revision's spec hash when quoted: the quote is for exactly these bytes */
+    specSha256: char('spec_sha256', { length: 64 }).notNull(),
+    requestedById: varchar('requested_by_id', { length: 40 })
+      .notNull()
+      .references(() => users.id),
+    quantity: int('quantity', { unsigned: true }).notNull(),
+    currency: char('currency', { length: 3 }).notNull(),
+    currencyMinorDigits: int('currency_minor_digits', { unsigned: true }).notNull(),
+    /** every line with its arithmetic inputs (QuoteLine[]) */
+    lines: jsonDoc<unknown>('lines').notNull(),
+    /** the rates the quote was made with */
+    rates: jsonDoc<unknown>('rates').notNull(),
+    perPlateMinor: bigint('per_plate_minor', { mode: 'number' }).notNull(),
+    partsMinor: bigint('parts_minor', { mode: 'number' }).notNull(),
+    discountMinor: bigint('discount_minor', { mode: 'number' }).notNull(),
+    setupMinor: bigint('setup_minor', { mode: 'number' }).notNull(),
+    taxMinor: bigint('tax_minor', { mode: 'number' }).notNull(),
+    totalMinor: bigint('total_minor', { mode: 'number' }).notNull(),
+    validUntil: datetime('valid_until', { mode: 'date', fsp: 3 }).notNull(),
+    state: mysqlEnum('state', QUOTE_STATES).notNull().default('open'),
+    createdAt: createdAt(),
+  },
+  (t) => [index('quotes_revision_idx').on(t.revisionId), index('quotes_requested_by_idx').on(t.requestedById)],
+);
+
+export const ORDER_STATES = ['awaiting_payment', 'paid', 'in_production', 'inspected', 'shipped'] as const;
+export type OrderState = (typeof ORDER_STATES)[number];
+
+export const orders = mysqlTable(
+  'orders',
+  {
+    id: pk(),
+    quoteId: idRef('quote_id')
+      .notNull()
+      .references(() => quotes.id),
+    revisionId: idRef('revision_id')
+      .notNull()
+      .references(() => revisions.id),
+    customerId: varchar('customer_id', { length: 40 })
+      .notNull()
+      .references(() => users.id),
+    state: mysqlEnum('state', ORDER_STATES).notNull().default('awaiting_payment'),
+    quantity: int('quantity', { unsigned: true }).notNull(),
+    amountMinor: bigint('amount_minor', { mode: 'number' }).notNull(),
+    currency: char('currency', { length: 3 }).notNull(),
+    checkoutSessionId: varchar('checkout_session_id', { length: 255 }).notNull(),
+    /** the payment service's id of the payment, once paid */
+    paymentReference: varchar('payment_reference', { length: 255 }),
+    lastPaymentProblem: varchar('last_payment_problem', { length: 500 }),
+    paidAt: datetime('paid_at', { mode: 'date', fsp: 3 }),
+    shippedAt: datetime('shipped_at', { mode: 'date', fsp: 3 }),
+    trackingNote: varchar('tracking_note', { length: 500 }),
+    createdAt: createdAt(),
+    updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [
+    uniqueIndex('orders_quote_uq').on(t.quoteId),
+    uniqueIndex('orders_checkout_session_uq').on(t.checkoutSessionId),
+    index('orders_customer_idx').on(t.customerId),
+    index('orders_state_idx').on(t.state),
+  ],
+);
+
+/** Every payment event taken in, once (the unique event id makes replays a no-op). */
+export const paymentEvents = mysqlTable(
+  'payment_events',
+  {
+    id: pk(),
+    eventId: varchar('event_id', { length: 255 }).notNull(),
+    type: varchar('type', { length: 100 }).notNull(),
+    orderId: idRef('order_id').references(() => orders.id),
+    /** what the event did: applied (state changed), ignored (nothing to change), declined … */
+    outcome: varchar('outcome', { length: 40 }).notNull(),
+    detail: varchar('detail', { length: 500 }).notNull(),
+    receivedAt: datetime('received_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [uniqueIndex('payment_events_event_uq').on(t.eventId), index('payment_events_order_idx').on(t.orderId)],
+);

@@ -6,54 +6,18 @@
  * in answers, and no password or session id in the server's output.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { readdirSync, readFileSync, statSync } from 'node:fs';
-import { join, relative } from 'node:path';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { closeDb, getDb } from '../../src/server/db/client';
 import { startServer, testAppPort, type RunningServer } from '../support/server';
 import { ApiClient } from '../support/auth';
 import { makeUser, TEST_PASSWORD } from '../support/users';
 import { postUpload } from '../support/measureUploads';
+import { discoverRoutes } from './routes';
 import { API_EXPECTATIONS, CALLERS, PAGE_EXPECTATIONS, type Caller, type Expectation, type Fixtures, type Req, type Status } from './accessExpectations';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
-const PAGES = join(ROOT, 'src/pages');
-const METHODS = ['GET', 'POST', 'PUT', 'PATCH', 'DELETE'] as const;
-
-/** Every route the app serves, as "METHOD /path/:param", from the file names and their exports. */
-export function discoverRoutes(): string[] {
-  const out: string[] = [];
-  const walk = (dir: string) => {
-    for (const name of readdirSync(dir)) {
-      const full = join(dir, name);
-      if (statSync(full).isDirectory()) {
-        walk(full);
-        continue;
-      }
-      const m = /^(.*)\.(astro|ts|js|mjs)$/.exec(name);
-      if (!m) continue;
-      const rel = relative(PAGES, join(dir, m[1]!)).split('\\').join('/');
-      const path =
-        '/' +
-        rel
-          .split('/')
-          .map((seg) => seg.replace(/^\[\.\.\.(.+)\]$/, ':$1*').replace(/\[([^\]]+)\]/g, ':$1'))
-          .filter((seg, i, a) => !(seg === 'index' && i === a.length - 1))
-          .join('/');
-      const clean = path === '/' ? '/' : path.replace(/\/$/, '');
-      if (m[2] === 'astro') {
-        out.push(`GET ${clean}`);
-        continue;
-      }
-      const src = readFileSync(full, 'utf8');
-      const found = METHODS.filter((meth) => new RegExp(`export\\s+(const|async\\s+function|function)\\s+${meth}\\b`).test(src));
-      if (/export\s+(const|async\s+function|function)\s+ALL\b/.test(src)) found.push(...METHODS.filter((x) => !found.includes(x)));
-      for (const meth of found) out.push(`${meth} ${clean}`);
-    }
-  };
-  walk(PAGES);
-  return out.sort();
-}
 
 const routes = discoverRoutes();
 const table: Record<string, Expectation> = { ...API_EXPECTATIONS, ...PAGE_EXPECTATIONS };

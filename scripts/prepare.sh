@@ -4,6 +4,6 @@
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
 
 pkgs=(mariadb-server-core mariadb-client-core)
-if [ "${1:-}" = "--with-browser" ]; then pkgs+=(chromium poppler-utils fonts-dejavu-core mariadb-client); fi
+if [ "${1:-}" = "--with-browser" ]; then pkgs+=(chromium poppler-utils fonts-dejavu-core mariadb-client nginx-light); fi
 ensure_debian_packages "${pkgs[@]}"
 ensure_node_modules

@@ -42,7 +42,25 @@ const who = defineMiddleware(async (ctx, next) => {
   return next();
 });
 
+/**
+ * Cross-site requests that change state are refused whatever their content type. Astro's own
+ * origin check covers form posts; this also covers JSON and other bodies. Requests without an
+ * Origin header (server-to-server, such as the payment webhook) are left to their endpoint.
+ */
+const sameOrigin = defineMiddleware((ctx, next) => {
+  const method = ctx.request.method;
+  if (method === 'GET' || method === 'HEAD' || method === 'OPTIONS') return next();
+  const origin = ctx.request.headers.get('origin');
+  if (origin && origin !== ctx.url.origin) {
+    return new Response(JSON.stringify({ error: { code: 'cross_site', message: 'Cross-site requests that change data are refused.' } }), {
+      status: 403,
+      headers: { 'content-type': 'application/json; charset=utf-8' },
+    });
+  }
+  return next();
+});
+
 /** Security headers on every answer (CSP, nosniff, referrer policy, no framing). */
 const secure = defineMiddleware(async (_ctx, next) => withSecurityHeaders(await next()));
 
-export const onRequest = sequence(secure, settings, who);
+export const onRequest = sequence(secure, sameOrigin, settings, who);

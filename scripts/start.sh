@@ -15,6 +15,13 @@ if [ -z "${SMTP_URL:-}" ] && [ "${NODE_ENV:-}" != "production" ]; then
   export SMTP_URL="smtp://127.0.0.1:$MAIL_FAKE_PORT"
   bash scripts/mail-fake.sh start
 fi
+# Payments: real keys from the environment in production; otherwise the local payment fake.
+if [ "${NODE_ENV:-}" != "production" ] && [ -z "${STRIPE_SECRET_KEY:-}" ] && [ -z "${PAYMENTS_API_BASE:-}" ]; then
+  export PAYMENTS_FAKE_PORT="${PAYMENTS_FAKE_PORT:-12111}"
+  export STRIPE_SECRET_KEY=sk_test_platewright_local_fake_key STRIPE_WEBHOOK_SECRET=whsec_platewright_local_fake_secret
+  export PAYMENTS_API_BASE="http://127.0.0.1:$PAYMENTS_FAKE_PORT"
+  bash scripts/payments-fake.sh start
+fi
 npx tsx scripts/check-config.ts
 ensure_build
 

@@ -21,6 +21,11 @@ export MAIL_FAKE_DIR="${TEST_MAIL_FAKE_DIR:-$MAIL_FAKE_DIR_DEFAULT}"
 export SMTP_URL="smtp://127.0.0.1:$MAIL_FAKE_PORT"
 unset APP_URL
 export UPLOAD_DIR="${TEST_UPLOAD_DIR:-$ROOT/.data/test-uploads}"
+# Payments go to a local payment fake of the test run's own port, never to the real service.
+export PAYMENTS_FAKE_PORT="${PAYMENTS_FAKE_PORT:-12112}"
+export STRIPE_SECRET_KEY=sk_test_platewright_local_fake_key STRIPE_WEBHOOK_SECRET=whsec_platewright_local_fake_secret
+export PAYMENTS_API_BASE="http://127.0.0.1:$PAYMENTS_FAKE_PORT"
+unset PAYMENTS_FAKE_WEBHOOK_URL
 
 bash scripts/prepare.sh --with-browser
 
@@ -28,14 +33,18 @@ db_was_running=0
 bash scripts/db.sh status >/dev/null 2>&1 && db_was_running=1
 mail_was_running=0
 bash scripts/mail-fake.sh status >/dev/null 2>&1 && mail_was_running=1
+payments_was_running=0
+bash scripts/payments-fake.sh status >/dev/null 2>&1 && payments_was_running=1
 cleanup() {
   if [ "$db_was_running" = 0 ]; then bash scripts/db.sh stop >/dev/null 2>&1 || true; fi
   if [ "$mail_was_running" = 0 ]; then bash scripts/mail-fake.sh stop >/dev/null 2>&1 || true; fi
+  if [ "$payments_was_running" = 0 ]; then bash scripts/payments-fake.sh stop >/dev/null 2>&1 || true; fi
 }
 trap cleanup EXIT
 
 rm -rf "$MAIL_FAKE_DIR"
 bash scripts/mail-fake.sh start
+bash scripts/payments-fake.sh start
 bash scripts/db.sh start
 # A fresh test database every run; the demo instance is never touched.
 mariadb --no-defaults --socket="$DB_DIR/mysqld.sock" -uroot -e "DROP DATABASE IF EXISTS \`$DB_NAME\`"

@@ -5,6 +5,12 @@ import resetText from '../../../templates/email/password-reset.txt?raw';
 import resetHtml from '../../../templates/email/password-reset.html?raw';
 import notificationText from '../../../templates/email/notification.txt?raw';
 import notificationHtml from '../../../templates/email/notification.html?raw';
+import quoteReadyText from '../../../templates/email/quote-ready.txt?raw';
+import quoteReadyHtml from '../../../templates/email/quote-ready.html?raw';
+import paymentReceivedText from '../../../templates/email/payment-received.txt?raw';
+import paymentReceivedHtml from '../../../templates/email/payment-received.html?raw';
+import orderShippedText from '../../../templates/email/order-shipped.txt?raw';
+import orderShippedHtml from '../../../templates/email/order-shipped.html?raw';
 
 // E-mail templates live in templates/email/: NAME.txt (first line "Subject: …", a blank line, the
 // plain-text body) and NAME.html. Values are escaped for HTML and inserted as they are in text.
@@ -13,6 +19,9 @@ export interface TemplateVars {
   invitation: { inviterName: string; roleLabel: string; roleDuty: string; link: string; expiresAt: string };
   'password-reset': { name: string; email: string; link: string; validMinutes: number; expiresAt: string };
   notification: { name: string; subject: string; body: string; link?: string; linkLabel?: string };
+  'quote-ready': { name: string; reference: string; shopName: string; partNumber: string; revision: number; plateTitle: string; quantity: number; lines: { label: string; basis: string; amount: string }[]; total: string; taxLabel: string; validUntil: string; link: string };
+  'payment-received': { name: string; reference: string; partNumber: string; revision: number; plateTitle: string; quantity: number; total: string; link: string };
+  'order-shipped': { name: string; reference: string; partNumber: string; revision: number; plateTitle: string; quantity: number; trackingNote: string | null; link: string };
 }
 export type TemplateName = keyof TemplateVars;
 
@@ -20,6 +29,9 @@ const SOURCES: Record<TemplateName, { text: string; html: string }> = {
   invitation: { text: invitationText, html: invitationHtml },
   'password-reset': { text: resetText, html: resetHtml },
   notification: { text: notificationText, html: notificationHtml },
+  'quote-ready': { text: quoteReadyText, html: quoteReadyHtml },
+  'payment-received': { text: paymentReceivedText, html: paymentReceivedHtml },
+  'order-shipped': { text: orderShippedText, html: orderShippedHtml },
 };
 
 export interface RenderedEmail {

@@ -145,7 +145,7 @@ describe('API fuzz', () => {
         const parent = list.body.revisions[0]?.id ?? null;
         const path = preview ? `/api/plates/${ids.plate}/preview/drawing.pdf` : `/api/plates/${ids.plate}/revisions`;
         const r = await c.member.post(path, preview ? { spec } : { spec, message: 'fuzz', parentRevisionId: parent });
-        check(path, r, JSON.stringify(spec).slice(0, 200));
+        check(path, r, String(JSON.stringify(spec)).slice(0, 200)); // the root itself may be mutated to undefined
         if (r.status < 300) saved++;
         else refused++;
       }),

@@ -3,6 +3,7 @@ import {
   artifacts,
   auditEvents,
   invitations,
+  inspections,
   orders,
   paymentEvents,
   quotes,
@@ -104,4 +105,10 @@ export const paymentEventsRelations = relations(paymentEvents, ({ one }) => ({
 
 export const shopSettingsRelations = relations(shopSettings, ({ one }) => ({
   updatedBy: one(users, { fields: [shopSettings.updatedById], references: [users.id] }),
+}));
+
+export const inspectionsRelations = relations(inspections, ({ one }) => ({
+  revision: one(revisions, { fields: [inspections.revisionId], references: [revisions.id] }),
+  plate: one(plates, { fields: [inspections.plateId], references: [plates.id] }),
+  machinist: one(users, { fields: [inspections.machinistId], references: [users.id] }),
 }));

@@ -361,3 +361,43 @@ export const paymentEvents = mysqlTable(
   },
   (t) => [uniqueIndex('payment_events_event_uq').on(t.eventId), index('payment_events_order_idx').on(t.orderId)],
 );
+
+// ── Inspection of the machined plate against its released revision ─────────────────────────────
+
+export const INSPECTION_STATES = ['in_progress', 'passed', 'failed', 'accepted_with_deviation'] as const;
+export type InspectionState = (typeof INSPECTION_STATES)[number];
+
+/** One as-machined inspection of one part against one approved revision. */
+export const inspections = mysqlTable(
+  'inspections',
+  {
+    id: pk(),
+    revisionId: idRef('revision_id')
+      .notNull()
+      .references(() => revisions.id),
+    plateId: idRef('plate_id')
+      .notNull()
+      .references(() => plates.id),
+    machinistId: varchar('machinist_id', { length: 40 })
+      .notNull()
+      .references(() => users.id),
+    state: mysqlEnum('state', INSPECTION_STATES).notNull().default('in_progress'),
+    /** the spec hash and the stored files' hashes at the start: [{ name, sha256 }] */
+    specSha256: char('spec_sha256', { length: 64 }).notNull(),
+    artifactHashes: jsonDoc<unknown>('artifact_hashes').notNull(),
+    /** measurement rows as entered [{ featureId, x?, y?, z?, diameter?, depth? }] */
+    measurements: jsonDoc<unknown>('measurements').notNull(),
+    /** computed results at the last save (InspectionResult) */
+    results: jsonDoc<unknown>('results'),
+    /** the machinist's note (optional) */
+    note: text('note'),
+    acceptedById: varchar('accepted_by_id', { length: 40 }).references(() => users.id),
+    /** the engineer's written reason for accepting with deviation */
+    acceptComment: text('accept_comment'),
+    createdAt: createdAt(),
+    updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    completedAt: datetime('completed_at', { mode: 'date', fsp: 3 }),
+    acceptedAt: datetime('accepted_at', { mode: 'date', fsp: 3 }),
+  },
+  (t) => [index('inspections_revision_idx').on(t.revisionId), index('inspections_plate_idx').on(t.plateId), index('inspections_state_idx').on(t.state)],
+);

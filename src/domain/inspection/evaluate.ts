@@ -28,7 +28,7 @@ export interface HoleResult {
   readonly sizeDeviationMm: number | null;
   readonly size: Limit;
   readonly depthDeviationMm: number | null;
-  readonly depthLimit: Limit | null;
+  readonly depthLimit: InspectionPlan['holes'][number]['depth'];
   readonly result: FeatureOutcome;
   /** why it failed or is not complete, in words */
   readonly notes: readonly string[];

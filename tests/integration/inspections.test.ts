@@ -42,7 +42,7 @@ beforeAll(async () => {
   }
   c.anonymous = new ApiClient(server.baseUrl);
   const p = await c.designer!.post('/api/projects', { name: 'Inspection swap', swapDescription: 'invented' });
-  const pl = await c.designer!.post(`/api/projects/${p.body.project.id}/plates`, { title: 'Inspected plate', material: '6061-T651 aluminium' });
+  const pl = await c.designer!.post(`/api/projects/${p.body.project.id}/plates`, { title: 'Inspected plate', material: '6061-T651 aluminium', partNumber: `IT-INSP-${Date.now().toString(36).toUpperCase()}` });
   const r1 = await c.designer!.post(`/api/plates/${pl.body.plate.id}/revisions`, { spec: demoRaw, message: 'for inspection', parentRevisionId: null });
   approvedRev = r1.body.revision.id;
   expect((await c.designer!.post(`/api/revisions/${approvedRev}/submit`, {})).status).toBe(200);

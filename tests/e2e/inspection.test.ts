@@ -95,6 +95,7 @@ describe('inspection of the demo plate in Chromium', () => {
     await e.getByRole('button', { name: 'Accept with deviation' }).click();
     await e.getByText('Accepted with deviation. The designer gets the report by e-mail.').waitFor();
     expect(await e.getByTestId('state').innerText()).toBe('Accepted with deviation');
+    expect(await e.getByTestId('overall').innerText()).toMatch(/ACCEPTED WITH DEVIATION — E3 out of tolerance[\s\S]*bolt still passes freely/);
     await e.screenshot({ path: `${SHOTS}/inspection-engineer-accepted.png`, fullPage: true });
 
     const pdf = await e.request.get(`${base}/api/inspections/${id}/report.pdf`);

@@ -178,6 +178,7 @@ export default function InspectionEditor(props: Props) {
         return;
       }
       setState(body.inspection.state);
+      setAcceptedNote(body.inspection.acceptComment);
       setMessage({ kind: 'ok', text: 'Accepted with deviation. The designer gets the report by e-mail.' });
     } finally {
       setBusy(false);
@@ -195,12 +196,12 @@ export default function InspectionEditor(props: Props) {
         <td className="pr-2 text-plate-700">{OP[h.operation] ?? h.operation}{h.thread ? ` ${h.thread}` : ''}</td>
         <td className="pr-2 text-right font-mono tabular-nums">{f3(h.nominal.x)}</td>
         <td className="pr-2 text-right font-mono tabular-nums">{f3(h.nominal.y)}</td>
-        <td className="pr-2 font-mono tabular-nums">Ø{f3(h.diameterMm)} <span className="text-plate-500">{h.size.label}</span></td>
+        <td className="whitespace-nowrap pr-2 font-mono tabular-nums">Ø{f3(h.diameterMm)} <span className="text-plate-500">{h.size.label}</span></td>
         <td className="pr-1">{cell(h.id, 'x', 'measured X')}</td>
         <td className="pr-1">{cell(h.id, 'y', 'measured Y')}</td>
         <td className="pr-1">{cell(h.id, 'diameter', 'measured diameter')}</td>
         <td className="pr-2">{cell(h.id, 'depth', 'measured depth', h.depth !== null)}</td>
-        <td className={`pr-2 text-right font-mono tabular-nums ${posBad ? 'font-bold text-red-800' : ''}`}>{hr?.truePositionMm != null ? `${f3(hr.truePositionMm)}${posBad ? ' ✗' : ''}` : ''}<span className="block text-xs font-normal text-plate-500">zone Ø{f3(h.positionToleranceMm)}</span></td>
+        <td className={`pr-2 text-right font-mono tabular-nums ${posBad ? 'font-bold text-red-800' : ''}`}>{hr?.truePositionMm != null ? `${f3(hr.truePositionMm)}${posBad ? ' ✗' : ''}` : ''}<span className="block whitespace-nowrap text-xs font-normal text-plate-500">zone Ø{f3(h.positionToleranceMm)}</span></td>
         <td className={`pr-2 text-right font-mono tabular-nums ${sizeBad ? 'font-bold text-red-800' : ''}`}>{sgn(hr?.sizeDeviationMm)}{sizeBad ? ' ✗' : ''}</td>
         <td className="py-1"><Verdict r={hr?.result} />{hr?.result === 'fail' && <span className="block text-xs text-red-900">{hr.notes.join('; ')}</span>}</td>
       </tr>
@@ -209,12 +210,17 @@ export default function InspectionEditor(props: Props) {
 
   const thk = byId.get('THK');
   const flat = byId.get('FLAT');
-  const overallWord = result.overall === 'passed' ? 'PASS — every feature within tolerance' : result.overall === 'failed' ? `FAIL — out of tolerance: ${result.failing.join(', ')}` : `Open — ${result.counts.notMeasured} check(s) still need values`;
+  const [acceptedNote, setAcceptedNote] = useState<string | null>(null);
+  const accepted = state === 'accepted_with_deviation';
+  const overallWord = accepted
+    ? `ACCEPTED WITH DEVIATION — ${result.failing.join(', ')} out of tolerance, accepted by an engineer in writing`
+    : result.overall === 'passed' ? 'PASS — every feature within tolerance' : result.overall === 'failed' ? `FAIL — out of tolerance: ${result.failing.join(', ')}` : `Open — ${result.counts.notMeasured} check(s) still need values`;
 
   return (
     <div className="space-y-4">
-      <div className={`rounded-lg border-2 p-3 ${result.overall === 'failed' ? 'border-red-700 bg-red-50' : result.overall === 'passed' ? 'border-green-700 bg-green-50' : 'border-plate-300 bg-white'}`} role="status" aria-live="polite" data-testid="overall">
+      <div className={`rounded-lg border-2 p-3 ${accepted ? 'border-brass-700 bg-amber-50' : result.overall === 'failed' ? 'border-red-700 bg-red-50' : result.overall === 'passed' ? 'border-green-700 bg-green-50' : 'border-plate-300 bg-white'}`} role="status" aria-live="polite" data-testid="overall">
         <p className="text-lg font-bold">{overallWord}</p>
+        {acceptedNote && <p className="text-sm">Reason: “{acceptedNote}”</p>}
         <p className="text-sm text-plate-700">Inspection state: <strong data-testid="state">{STATE[state] ?? state}</strong> · {result.counts.pass} pass · {result.counts.fail} fail · {result.counts.notMeasured} open</p>
       </div>
       {message && <p role={message.kind === 'error' ? 'alert' : 'status'} className={`rounded px-3 py-2 text-sm ${message.kind === 'error' ? 'bg-red-100 text-red-900' : 'bg-green-100 text-green-900'}`}>{message.text}</p>}
@@ -229,7 +235,7 @@ export default function InspectionEditor(props: Props) {
           <thead>
             <tr className="text-left text-xs uppercase tracking-wide text-plate-500">
               <th className="pr-2">Feature</th><th className="pr-2">Kind</th><th className="pr-2 text-right">Nom. X</th><th className="pr-2 text-right">Nom. Y</th><th className="pr-2">Nom. Ø / limits</th>
-              <th>Meas. X</th><th>Meas. Y</th><th>Meas. Ø</th><th>Depth</th><th className="pr-2 text-right">TP</th><th className="pr-2 text-right">ΔØ</th><th>Result</th>
+              <th>Meas. X</th><th>Meas. Y</th><th>Meas. Ø</th><th title="blind-hole or counterbore depth">Depth</th><th className="pr-2 text-right">TP</th><th className="pr-2 text-right">ΔØ</th><th>Result</th>
             </tr>
           </thead>
           <tbody>
@@ -242,7 +248,7 @@ export default function InspectionEditor(props: Props) {
                   <th scope="row" className="py-1 pr-2 text-left font-mono font-bold">{p.id}</th>
                   <td className="pr-2 text-plate-700" colSpan={4}>{p.face} bolt circle Ø{f3(p.nominalDiameterMm)}: fitted centre vs datum</td>
                   <td colSpan={4} className="font-mono text-xs tabular-nums">{pr?.fittedCentre ? `centre ${f3(pr.fittedCentre.x)}, ${f3(pr.fittedCentre.y)} · Ø${f3(pr.fittedDiameterMm)}` : `needs 3 of ${p.holeIds.length} hole centres`}</td>
-                  <td className="pr-2 text-right font-mono tabular-nums">{f3(pr?.concentricityMm)}<span className="block text-xs text-plate-500">TIR Ø{f3(p.toleranceMm)}</span></td>
+                  <td className="pr-2 text-right font-mono tabular-nums">{f3(pr?.concentricityMm)}<span className="block whitespace-nowrap text-xs text-plate-500">TIR Ø{f3(p.toleranceMm)}</span></td>
                   <td />
                   <td className="py-1"><Verdict r={pr?.result} /></td>
                 </tr>

@@ -52,3 +52,15 @@ export function formatMoney(minor: number, currency: string, digits: number): st
 export function bpToPercent(bp: number): string {
   return `${Number((bp / 100).toFixed(2))} %`;
 }
+
+/**
+ * "9.50" / "9,50" / "12" → minor units (950 / 950 / 1200) without floating point; null when the
+ * text is not a plain amount with at most `digits` decimals.
+ */
+export function decimalToMinor(text: string, digits: number): number | null {
+  const m = /^\s*(\d{1,12})(?:[.,](\d*))?\s*$/.exec(text);
+  if (!m) return null;
+  const frac = m[2] ?? '';
+  if (frac.length > digits) return null;
+  return Number(m[1]) * 10 ** digits + Number((frac + '0'.repeat(digits)).slice(0, digits) || '0');
+}

@@ -181,3 +181,17 @@ describe('money rounding', () => {
     expect(paths).toEqual(expect.arrayContaining(['currency', 'taxRateBp', 'materials']));
   });
 });
+
+describe('amounts typed by an admin', () => {
+  it('reads decimals into minor units exactly, and refuses what is not an amount', async () => {
+    const { decimalToMinor } = await import('../../../src/domain/quote/money');
+    expect(decimalToMinor('9.50', 2)).toBe(950);
+    expect(decimalToMinor('9,5', 2)).toBe(950);
+    expect(decimalToMinor('12', 2)).toBe(1200);
+    expect(decimalToMinor('0.07', 2)).toBe(7);
+    expect(decimalToMinor('1.005', 2)).toBeNull(); // more decimals than the currency has
+    expect(decimalToMinor('-3', 2)).toBeNull();
+    expect(decimalToMinor('abc', 2)).toBeNull();
+    expect(decimalToMinor('1200', 0)).toBe(1200);
+  });
+});

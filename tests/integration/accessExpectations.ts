@@ -152,6 +152,14 @@ export const API_EXPECTATIONS: Record<string, Expectation> = {
   },
   'POST /api/payments/webhook': { expect: all(400), why: 'no caller is trusted: only a valid payment-service signature is', request: () => ({ path: '/api/payments/webhook', body: { type: 'checkout.session.completed' } }) },
 
+  // inspections (ids that do not exist where no fixture inspection is at hand: the role rule, then 404)
+  'POST /api/revisions/:id/inspections': { expect: roles(201, ['machinist']), request: (fx) => ({ path: `/api/revisions/${fx.approvedRevisionId}/inspections`, body: {} }) },
+  'GET /api/plates/:id/inspections': { expect: { ...projectEditors(200), machinist: 200 } },
+  'GET /api/inspections/:id': { expect: signedIn(404), request: () => ({ path: '/api/inspections/999999999' }) },
+  'GET /api/inspections/:id/report.pdf': { expect: signedIn(404), request: () => ({ path: '/api/inspections/999999999/report.pdf' }) },
+  'PUT /api/inspections/:id/measurements': { expect: roles(404, ['machinist']), request: () => ({ path: '/api/inspections/999999999/measurements', body: { rows: [] } }) },
+  'POST /api/inspections/:id/accept': { expect: roles(404, ['engineer', 'admin']), request: () => ({ path: '/api/inspections/999999999/accept', body: { comment: 'matrix: accepted' } }) },
+
   'GET /api/uploads/:id': { expect: { ...projectEditors(200), machinist: [403, 404] } },
   'GET /api/uploads/:id/file': { expect: { ...projectEditors(200), machinist: [403, 404] } },
   'POST /api/uploads/:id/fit': { expect: { ...projectEditors(200), machinist: [403, 404] }, request: (fx) => ({ path: `/api/uploads/${fx.uploadId}/fit`, body: { kind: 'plane' } }) },
@@ -181,6 +189,8 @@ export const PAGE_EXPECTATIONS: Record<string, Expectation> = {
   'GET /plates/:id/edit': { expect: pageRoles(['member', 'outsider', 'engineer', 'admin'], 404) },
   'GET /review': { expect: pageRoles(['engineer', 'admin']) },
   'GET /shop': { expect: pageRoles(['machinist', 'engineer', 'admin']) },
+  'GET /shop/inspections': { expect: pageRoles(['member', 'outsider', 'engineer', 'machinist', 'admin']), request: (fx) => ({ path: `/shop/inspections?plate=${fx.plateId}` }) },
+  'GET /shop/inspections/:id': { expect: { ...all(404), anonymous: 302 }, request: () => ({ path: '/shop/inspections/999999999' }) },
   'GET /sign-out': { expect: all(302) },
   'POST /sign-out': { ownSession: true, expect: all(303) },
 };

@@ -46,7 +46,7 @@ interface Session extends Json {
 }
 
 const sessions = new Map<string, Session>();
-const byIdempotencyKey = new Map<string, string>();
+const byIdempotencyKey = new Map<string, { sessionId: string; body: string }>();
 const delivered: { eventId: string; type: string; sessionId: string; status: number | string }[] = [];
 
 const id = (prefix: string) => `${prefix}_fake_${randomBytes(12).toString('hex')}`;
@@ -233,10 +233,15 @@ const server = createServer(async (req, res) => {
       if (req.method === 'POST' && path === '/v1/checkout/sessions') {
         const key = req.headers['idempotency-key'];
         const body = await readBody(req);
-        if (typeof key === 'string' && byIdempotencyKey.has(key)) return send(res, 200, publicSession(sessions.get(byIdempotencyKey.get(key)!)!));
+        const seen = typeof key === 'string' ? byIdempotencyKey.get(key) : undefined;
+        if (seen) {
+          // like the real service: a key reused with different parameters is an error, not a replay
+          if (seen.body !== body) return send(res, 400, { error: { type: 'idempotency_error', message: `Keys for idempotent requests can only be used with the same parameters they were first used with (key ${key}).` } });
+          return send(res, 200, publicSession(sessions.get(seen.sessionId)!));
+        }
         const made = createSession(parseForm(body));
         if (typeof made === 'string') return apiError(res, 400, made, 'parameter_invalid');
-        if (typeof key === 'string') byIdempotencyKey.set(key, made.id);
+        if (typeof key === 'string') byIdempotencyKey.set(key, { sessionId: made.id, body });
         return send(res, 200, publicSession(made));
       }
       const m = /^\/v1\/checkout\/sessions\/([\w-]+)$/.exec(path);

@@ -3,7 +3,7 @@ import { readFileSync } from 'node:fs';
 import Stripe from 'stripe';
 import { eq } from 'drizzle-orm';
 import { closeDb, getDb } from '../../src/server/db/client';
-import { orders, paymentEvents } from '../../src/server/db/schema';
+import { inspections, orders, paymentEvents } from '../../src/server/db/schema';
 import { startServer, testAppPort, type RunningServer } from '../support/server';
 import { ApiClient } from '../support/auth';
 import { makeUser, TEST_PASSWORD } from '../support/users';
@@ -233,7 +233,7 @@ describe('orders and payment', () => {
     expect((await orderRow(orderId)).state).toBe('awaiting_payment');
   });
 
-  it('the shop moves a paid order one step at a time; inspected needs the inspection; shipped mails the designer', async () => {
+  it('the shop moves a paid order one step at a time; inspected needs a passed inspection; shipped mails the designer', async () => {
     const { orderId } = await quoteAndAccept();
     const o = await orderRow(orderId);
     await postEvent(completedEvent(`evt_test_ship_${orderId}`, { id: o.checkoutSessionId, amount: o.amountMinor, currency: o.currency }));
@@ -241,11 +241,19 @@ describe('orders and payment', () => {
     expect(skip.status).toBe(409);
     expect(skip.body.error.message).toMatch(/next step is in production/);
     expect((await c.machinist.patch(`/api/orders/${orderId}`, { state: 'in_production' })).status).toBe(200);
-    const noNote = await c.machinist.patch(`/api/orders/${orderId}`, { state: 'inspected' });
-    expect(noNote.status).toBe(400);
-    expect(noNote.body.error.fields).toHaveProperty('inspectionNote');
+    // no inspection yet → refused; a failed one → refused; a passed one after payment → allowed
+    const none = await c.machinist.patch(`/api/orders/${orderId}`, { state: 'inspected' });
+    expect(none.status).toBe(409);
+    expect(none.body.error.code).toBe('not_inspected');
+    const rev = (await c.designer.get(`/api/revisions/${approvedRev}`)).body.revision;
+    const inspection = (state: 'failed' | 'passed') => ({ revisionId: approvedRev, plateId: rev.plateId, machinistId: people.machinist.id, state, specSha256: rev.specSha256, artifactHashes: [], measurements: [], completedAt: new Date(Date.now() + 1000) });
+    await getDb().insert(inspections).values(inspection('failed'));
+    const failed = await c.machinist.patch(`/api/orders/${orderId}`, { state: 'inspected' });
+    expect(failed.status).toBe(409);
+    expect(failed.body.error.code).toBe('inspection_failed');
     expect((await orderRow(orderId)).state).toBe('in_production');
-    expect((await c.machinist.patch(`/api/orders/${orderId}`, { state: 'inspected', inspectionNote: 'All holes within true position 0.1; bore H7 checked with a plug gauge.' })).status).toBe(200);
+    await getDb().insert(inspections).values(inspection('passed'));
+    expect((await c.machinist.patch(`/api/orders/${orderId}`, { state: 'inspected' })).status).toBe(200);
     const shipped = await c.engineer.patch(`/api/orders/${orderId}`, { state: 'shipped', note: 'Parcel 4411-TEST, invented carrier' });
     expect(shipped.status).toBe(200);
     expect(shipped.body.order.state).toBe('shipped');

@@ -23,12 +23,12 @@ function Step({ order, onDone }: { order: OrderView; onDone: (o: OrderView) => v
   const [pending, setPending] = useState(false);
   const next = order.nextState;
   if (!next) return <span className="text-xs text-plate-500">done</span>;
-  const needsNote = next === 'inspected' || next === 'shipped';
+  const needsNote = next === 'shipped';
   const go = async () => {
     setError(null);
     setPending(true);
     try {
-      const body = next === 'inspected' ? { state: next, inspectionNote: note } : next === 'shipped' ? { state: next, note: note || undefined } : { state: next };
+      const body = next === 'shipped' ? { state: next, note: note || undefined } : { state: next };
       const r = await apiSend<{ order: OrderView }>('PATCH', `/api/orders/${order.id}`, body);
       setNote('');
       onDone(r.order);
@@ -42,10 +42,11 @@ function Step({ order, onDone }: { order: OrderView; onDone: (o: OrderView) => v
     <div className="flex flex-col gap-1">
       {needsNote && (
         <label className="text-xs font-semibold">
-          {next === 'inspected' ? 'Inspection: who checked it, result' : 'Shipping note (optional)'}
-          <input value={note} onChange={(e) => setNote(e.target.value)} className="mt-0.5 block w-64 rounded border border-blast-200 px-2 py-1 font-normal" placeholder={next === 'inspected' ? 'e.g. all holes in position, bore H7 gauged' : 'e.g. parcel number'} />
+          Shipping note (optional)
+          <input value={note} onChange={(e) => setNote(e.target.value)} className="mt-0.5 block w-64 rounded border border-blast-200 px-2 py-1 font-normal" placeholder="e.g. parcel number" />
         </label>
       )}
+      {next === 'inspected' && <a className="text-xs text-plate-700 underline" href={`/shop/inspections?plate=${order.plateId}`}>Needs a passed inspection of rev {order.revisionNumber}</a>}
       <button type="button" disabled={pending} onClick={go} className="w-fit rounded bg-plate-900 px-3 py-1.5 text-sm font-semibold text-white hover:bg-plate-700 disabled:opacity-50">{STEP_LABEL[next]}</button>
       {error && <p role="alert" className="max-w-xs text-xs text-finding-error">{error}</p>}
     </div>

@@ -1,17 +1,27 @@
 /**
- * The gate on an order's `inspected` state: the part must have passed (or been accepted at)
- * inspection against the approved revision.
- *
- * NOT WIRED YET: the inspection records are being built separately (an `inspections` table in
- * src/server/db/schema.ts). Until `inspectionResultForOrder` reads them it answers `unknown`, and
- * the shop then has to write who inspected the part and what was found (`inspectionNote`), which
- * goes into the audit trail. Wire it by making this function look up the newest inspection of
- * the order's revision and return 'passed' | 'accepted' | 'failed'.
+ * The gate on an order's `inspected` state: a part of the order's revision must have passed
+ * inspection (or been accepted with a deviation by an engineer) after the order was paid, i.e.
+ * inspected for this order and against this approved revision. A newer failed inspection with
+ * nothing passed after it blocks the step.
  */
+import { and, desc, eq } from 'drizzle-orm';
 import type { Db, Tx } from '../db/client';
+import { inspections } from '../db/schema';
 
-export type InspectionResult = { status: 'passed' | 'accepted' | 'failed'; detail: string } | { status: 'unknown'; detail: string };
+export type InspectionResult = { status: 'passed' | 'accepted' | 'failed' | 'none'; detail: string; inspectionId?: number };
 
-export async function inspectionResultForOrder(_db: Db | Tx, _order: { id: number; revisionId: number }): Promise<InspectionResult> {
-  return { status: 'unknown', detail: 'inspection records are not connected to orders yet' };
+export async function inspectionResultForOrder(db: Db | Tx, order: { id: number; revisionId: number; paidAt: Date | null }): Promise<InspectionResult> {
+  const rows = await db
+    .select({ id: inspections.id, state: inspections.state, completedAt: inspections.completedAt, acceptedAt: inspections.acceptedAt })
+    .from(inspections)
+    .where(and(eq(inspections.revisionId, order.revisionId)))
+    .orderBy(desc(inspections.id))
+    .limit(200);
+  const since = order.paidAt?.getTime() ?? 0;
+  const finished = rows.filter((r) => r.state !== 'in_progress' && (r.acceptedAt ?? r.completedAt ?? new Date(0)).getTime() >= since);
+  const ok = finished.find((r) => r.state === 'passed' || r.state === 'accepted_with_deviation');
+  if (ok) return { status: ok.state === 'passed' ? 'passed' : 'accepted', detail: `inspection ${ok.id} ${ok.state === 'passed' ? 'passed' : 'accepted with deviation'}`, inspectionId: ok.id };
+  const failed = finished.find((r) => r.state === 'failed');
+  if (failed) return { status: 'failed', detail: `inspection ${failed.id} failed`, inspectionId: failed.id };
+  return { status: 'none', detail: 'no finished inspection of this revision since the order was paid' };
 }

@@ -234,7 +234,7 @@ export async function acceptQuote(db: Db, user: SessionUser, quoteId: number, ap
   if (q.validUntil.getTime() <= Date.now()) throw new AppError(409, 'quote_expired', `Quote ${quoteReference(q.id)} expired on ${q.validUntil.toISOString().slice(0, 10)}; request a new quote (rates may have changed).`);
   if (r.status !== 'approved' || r.specSha256 !== q.specSha256) throw new AppError(409, 'revision_changed', `Revision ${r.number} is no longer the released revision it was quoted as (${r.status.replace('_', ' ')}); request a quote for the current release.`);
   // the checkout session first: if the payment service is down nothing is saved
-  const session = await createCheckout(user, q, { ...r, id: q.revisionId }, appBase, `platewright-quote-${q.id}-accept`);
+  const session = await createCheckout(user, q, { ...r, id: q.revisionId }, appBase, `platewright-quote-${q.id}-${q.createdAt.getTime()}-accept`);
   try {
     const orderId = await db.transaction(async (tx) => {
       const [locked] = await tx.select({ state: quotes.state }).from(quotes).where(eq(quotes.id, q.id)).for('update');
@@ -352,7 +352,7 @@ export async function orderById(db: Db | Tx, orderId: number): Promise<OrderView
 }
 
 /** The shop moves a paid order along: paid → in production → inspected → shipped, one step at a time. */
-export async function advanceOrder(db: Db, user: SessionUser, orderId: number, input: { state: OrderState; note?: string; inspectionNote?: string }): Promise<OrderView> {
+export async function advanceOrder(db: Db, user: SessionUser, orderId: number, input: { state: OrderState; note?: string }): Promise<OrderView> {
   if (!['machinist', 'engineer', 'admin'].includes(user.role)) throw forbidden('Only the shop (machinist, engineer or admin) moves an order along.');
   await db.transaction(async (tx) => {
     const [o] = await tx.select().from(orders).where(eq(orders.id, orderId)).for('update');
@@ -367,12 +367,9 @@ export async function advanceOrder(db: Db, user: SessionUser, orderId: number, i
     const details: Record<string, unknown> = { from: o.state, to: input.state };
     if (input.state === 'inspected') {
       const result = await inspectionResultForOrder(tx, o);
-      if (result.status === 'failed') throw new AppError(409, 'inspection_failed', `The part of order ${ref} failed inspection (${result.detail}); it cannot be marked inspected until a passed or accepted inspection is recorded.`);
-      if (result.status === 'unknown') {
-        const note = input.inspectionNote?.trim() ?? '';
-        if (note.length < 5) throw new AppError(400, 'invalid_input', 'Write who inspected the part against the approved revision and what was found (at least 5 characters).', { fields: { inspectionNote: 'say who inspected it and the result' } });
-        details.inspectionNote = note;
-      } else details.inspection = result;
+      if (result.status === 'failed') throw new AppError(409, 'inspection_failed', `The part of order ${ref} failed inspection (${result.detail}); record a passed inspection, or have an engineer accept the deviation, before marking it inspected.`, { inspectionId: result.inspectionId });
+      if (result.status === 'none') throw new AppError(409, 'not_inspected', `Order ${ref} has no passed or accepted inspection since it was paid; inspect the part against the approved revision first (Shop → Inspections).`);
+      details.inspection = result;
     }
     const set: Partial<typeof orders.$inferInsert> = { state: input.state, updatedAt: new Date() };
     if (input.state === 'shipped') {

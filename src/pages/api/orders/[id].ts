@@ -12,7 +12,6 @@ const bodySchema = z
   .object({
     state: z.enum(['in_production', 'inspected', 'shipped'], { error: 'state must be "in_production", "inspected" or "shipped" (payment is set by the payment service only)' }),
     note: z.string().trim().max(500).optional(),
-    inspectionNote: z.string().trim().max(1000).optional(),
   })
   .strict();
 

@@ -5,6 +5,9 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fc from 'fast-check';
+
+// One fixed seed per run of the suite (change FUZZ_SEED to explore); a failure prints its seed and path.
+fc.configureGlobal({ seed: Number(process.env.FUZZ_SEED ?? 20261201) });
 import { readFileSync } from 'node:fs';
 import { closeDb, getDb } from '../../src/server/db/client';
 import { startServer, testAppPort, type RunningServer } from '../support/server';

@@ -6,6 +6,9 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
+
+// One fixed seed per run of the suite (change FUZZ_SEED to explore); a failure prints its seed and path.
+fc.configureGlobal({ seed: Number(process.env.FUZZ_SEED ?? 20261201) });
 import { parseMeasureFile } from '../../../src/domain/measure/formats';
 import { uploadSummary } from '../../../src/domain/measure/summary';
 import { domainCall } from './walk';

@@ -7,6 +7,9 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
+
+// One fixed seed per run of the suite (change FUZZ_SEED to explore); a failure prints its seed and path.
+fc.configureGlobal({ seed: Number(process.env.FUZZ_SEED ?? 20261201) });
 import { checkPlate, cutLength, parsePlateSpec, plateMass, plateProfile, stockSize, type PlateSpec } from '../../../src/domain';
 import { domainCall, expectFinite } from './walk';
 

@@ -1,4 +1,5 @@
 import type { OutlineSegment, PlateProfile, ProfileHole } from '~/domain/profileTypes';
+import { chainPathData } from '~/domain/exports/svg';
 
 export type HoleMark = 'added' | 'removed' | 'moved' | 'changed' | undefined;
 
@@ -9,24 +10,8 @@ const MARK_STYLE: Record<Exclude<HoleMark, undefined>, { stroke: string; fill: s
   changed: { stroke: '#7a4ab0', fill: 'rgba(122,74,176,0.18)' },
 };
 
-/** SVG path of a closed outline of lines and true arcs (y flipped: plate +Y is up on screen). */
-export function outlinePath(segments: readonly OutlineSegment[]): string {
-  if (!segments.length) return '';
-  const parts = [`M ${segments[0].start.x} ${-segments[0].start.y}`];
-  for (const s of segments) {
-    if (s.kind === 'line') parts.push(`L ${s.end.x} ${-s.end.y}`);
-    else {
-      const a0 = Math.atan2(s.start.y - s.center.y, s.start.x - s.center.x);
-      const a1 = Math.atan2(s.end.y - s.center.y, s.end.x - s.center.x);
-      let sweep = s.ccw ? a1 - a0 : a0 - a1;
-      while (sweep < 0) sweep += 2 * Math.PI;
-      const large = sweep > Math.PI ? 1 : 0;
-      // y is flipped, so counter-clockwise in plate coordinates is clockwise on screen (sweep flag 0)
-      parts.push(`A ${s.radiusMm} ${s.radiusMm} 0 ${large} ${s.ccw ? 0 : 1} ${s.end.x} ${-s.end.y}`);
-    }
-  }
-  return parts.join(' ') + ' Z';
-}
+/** SVG path of a closed outline of lines and true arcs (y flipped), the same path the SVG export writes. */
+export const outlinePath = (segments: readonly OutlineSegment[]): string => (segments.length ? chainPathData(segments) : '');
 
 const FACE_STYLE: Record<ProfileHole['face'], { stroke: string; fill: string }> = {
   engine: { stroke: '#1d3a4a', fill: '#ffffff' },

@@ -3,6 +3,7 @@
  * outlines). Pure: used by the DXF/SVG writers, the analytic volume and the CAD build alike.
  * Angles in radians inside this module (names end in `Rad`); lengths in millimetres.
  */
+import { outlineBBox } from '../outline';
 import type { OutlineSegment, Point2 } from '../profileTypes';
 
 const TWO_PI = 2 * Math.PI;
@@ -100,31 +101,7 @@ export function tangentOnSegment(seg: OutlineSegment, u: number): Point2 {
 
 /** Exact axis-aligned bounds of a chain (arcs contribute their extreme quadrant points). */
 export function chainBounds(chain: readonly OutlineSegment[]): { minX: number; minY: number; maxX: number; maxY: number } {
-  let minX = Infinity;
-  let minY = Infinity;
-  let maxX = -Infinity;
-  let maxY = -Infinity;
-  const add = (p: Point2) => {
-    minX = Math.min(minX, p.x);
-    minY = Math.min(minY, p.y);
-    maxX = Math.max(maxX, p.x);
-    maxY = Math.max(maxY, p.y);
-  };
-  for (const s of chain) {
-    add(s.start);
-    add(s.end);
-    if (s.kind === 'arc') {
-      const a0 = angleOfRad(s.center, s.start);
-      const sweep = arcSweepRad(s);
-      const lo = Math.min(a0, a0 + sweep);
-      const hi = Math.max(a0, a0 + sweep);
-      for (let k = Math.ceil((lo / (Math.PI / 2)) - 1e-12); k * (Math.PI / 2) <= hi + 1e-12; k++) {
-        const a = k * (Math.PI / 2);
-        add({ x: s.center.x + s.radiusMm * Math.cos(a), y: s.center.y + s.radiusMm * Math.sin(a) });
-      }
-    }
-  }
-  return { minX, minY, maxX, maxY };
+  return outlineBBox(chain);
 }
 
 /** Shortest distance from a point to a segment. */

@@ -14,13 +14,12 @@ import { PlateCache } from '../../cad/buildPlate';
 import { kernelVersion, onKernelRecycle, withKernel } from '../../cad/kernel.node.ts';
 import { plateStep } from '../../cad/step';
 import { drawingPdf, type DrawingMeta, type Paper } from './drawing';
+import { CONTENT_TYPES, isFileName, type FileName } from '../fileNames';
 
-export const REVISION_FILE_NAMES = ['plate.step', 'plate.dxf', 'drawing.pdf', 'plate.svg', 'holes.csv'] as const;
-export type RevisionFileName = (typeof REVISION_FILE_NAMES)[number];
-
-export function isRevisionFileName(s: string): s is RevisionFileName {
-  return (REVISION_FILE_NAMES as readonly string[]).includes(s);
-}
+// The file names and their content types are stated once, in ../fileNames.
+export const REVISION_FILE_NAMES = ['plate.step', 'plate.dxf', 'drawing.pdf', 'plate.svg', 'holes.csv'] as const satisfies readonly FileName[];
+export type RevisionFileName = FileName;
+export const isRevisionFileName = isFileName;
 
 export interface RevisionFilesInput {
   readonly profile: PlateProfile;
@@ -39,13 +38,7 @@ export interface RenderedFile {
   readonly sha256: string;
 }
 
-export const CONTENT_TYPES: Record<RevisionFileName, string> = {
-  'plate.step': 'model/step',
-  'plate.dxf': 'image/vnd.dxf',
-  'drawing.pdf': 'application/pdf',
-  'plate.svg': 'image/svg+xml',
-  'holes.csv': 'text/csv; charset=utf-8',
-};
+export { CONTENT_TYPES };
 
 const SUFFIX: Record<RevisionFileName, string> = {
   'plate.step': '.step',

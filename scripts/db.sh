@@ -18,19 +18,10 @@ LOG="$DB_DIR/server.log"
 
 # Our server is alive when its pid runs (not a zombie) and really is mariadbd on our data folder.
 our_pid() {
-  [ -f "$PIDFILE" ] || return 1
-  local pid state
-  pid="$(cat "$PIDFILE" 2>/dev/null)" || return 1
-  [ -n "$pid" ] && [ -d "/proc/$pid" ] || return 1
-  state="$(awk '/^State:/ {print $2}' "/proc/$pid/status" 2>/dev/null)"
-  [ "$state" != "Z" ] || return 1
-  tr '\0' ' ' <"/proc/$pid/cmdline" 2>/dev/null | grep -q -- "--datadir=$DATA" || return 1
+  local pid
+  pid="$(pid_from_file "$PIDFILE")" || return 1
+  cmdline_has "$pid" "--datadir=$DATA" || return 1
   echo "$pid"
-}
-
-port_in_use() {
-  (exec 3<>"/dev/tcp/127.0.0.1/$DB_PORT") 2>/dev/null && { exec 3>&- 3<&-; return 0; }
-  return 1
 }
 
 client() { mariadb --no-defaults --socket="$SOCK" -uroot "$@"; }
@@ -42,7 +33,7 @@ start() {
   if pid="$(our_pid)"; then
     if ready; then say "MariaDB already running (pid $pid, 127.0.0.1:$DB_PORT)"; provision; return 0; fi
   fi
-  if port_in_use; then
+  if port_in_use "$DB_PORT"; then
     die "port $DB_PORT on 127.0.0.1 is taken by another program — stop it or choose another port with DB_PORT=…"
   fi
   mkdir -p "$DB_DIR"
@@ -86,16 +77,7 @@ SQL
 stop() {
   local pid
   if ! pid="$(our_pid)"; then say "MariaDB not running (${DB_DIR#$ROOT/})"; return 0; fi
-  kill "$pid"
-  local i
-  for i in $(seq 1 120); do
-    [ -d "/proc/$pid" ] && [ "$(awk '/^State:/ {print $2}' "/proc/$pid/status" 2>/dev/null)" != "Z" ] || break
-    sleep 0.25
-  done
-  if [ -d "/proc/$pid" ] && [ "$(awk '/^State:/ {print $2}' "/proc/$pid/status" 2>/dev/null)" != "Z" ]; then
-    warn "MariaDB (pid $pid) did not stop in 30 s; killing it"
-    kill -9 "$pid" 2>/dev/null || true
-  fi
+  stop_pid "$pid" 30 || warn "MariaDB (pid $pid) did not stop in 30 s; it was killed"
   rm -f "$PIDFILE"
   say "MariaDB stopped (${DB_DIR#$ROOT/})"
 }

@@ -53,3 +53,41 @@ ensure_build() {
   npx astro build >"/tmp/platewright-build-$$.log" 2>&1 || { tail -40 "/tmp/platewright-build-$$.log" >&2; die "build failed (log above)"; }
   touch "$marker"
 }
+
+# --- background processes of our own (the private MariaDB and the local fakes) ---
+
+# pid_alive PID — the process runs and is not a zombie (a zombie keeps kill -0 true).
+pid_alive() {
+  [ -n "${1:-}" ] && [ -d "/proc/$1" ] || return 1
+  [ "$(awk '/^State:/ {print $2}' "/proc/$1/status" 2>/dev/null)" != "Z" ]
+}
+
+# pid_from_file FILE — the pid in FILE when that process is alive.
+pid_from_file() {
+  [ -f "$1" ] || return 1
+  local pid
+  pid="$(cat "$1" 2>/dev/null)" || return 1
+  pid_alive "$pid" || return 1
+  echo "$pid"
+}
+
+# cmdline_has PID TEXT — the process's command line contains TEXT.
+cmdline_has() { tr '\0' ' ' <"/proc/$1/cmdline" 2>/dev/null | grep -q -- "$2"; }
+
+# environ_has PID NAME=VALUE — the process was started with exactly that variable.
+environ_has() { tr '\0' '\n' <"/proc/$1/environ" 2>/dev/null | grep -qxF -- "$2"; }
+
+# port_in_use PORT — something answers on 127.0.0.1:PORT.
+port_in_use() {
+  (exec 3<>"/dev/tcp/127.0.0.1/$1") 2>/dev/null && { exec 3>&- 3<&-; return 0; }
+  return 1
+}
+
+# stop_pid PID SECONDS — SIGTERM, wait up to SECONDS, then SIGKILL. Returns 1 if it had to kill.
+stop_pid() {
+  local pid="$1" limit=$(( ${2:-10} * 10 )) i
+  kill "$pid" 2>/dev/null || true
+  for i in $(seq 1 "$limit"); do pid_alive "$pid" || return 0; sleep 0.1; done
+  kill -9 "$pid" 2>/dev/null || true
+  return 1
+}

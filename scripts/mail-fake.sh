@@ -11,29 +11,18 @@ STATE="$ROOT/.data/fake-smtp"
 PIDFILE="$STATE/$MAIL_FAKE_PORT.pid"
 LOG="$STATE/$MAIL_FAKE_PORT.log"
 
-# Ours when the pid runs (not a zombie) and really is the catcher on our port.
+# Ours when the pid runs (not a zombie) and really is the catcher on our port and folder.
 our_pid() {
-  [ -f "$PIDFILE" ] || return 1
-  local pid state
-  pid="$(cat "$PIDFILE" 2>/dev/null)" || return 1
-  [ -n "$pid" ] && [ -d "/proc/$pid" ] || return 1
-  state="$(awk '/^State:/ {print $2}' "/proc/$pid/status" 2>/dev/null)"
-  [ "$state" != "Z" ] || return 1
-  tr '\0' ' ' <"/proc/$pid/cmdline" 2>/dev/null | grep -q -- "fake-smtp.ts" || return 1
-  tr '\0' '\n' <"/proc/$pid/environ" 2>/dev/null | grep -qx -- "MAIL_FAKE_PORT=$MAIL_FAKE_PORT" || return 1
-  tr '\0' '\n' <"/proc/$pid/environ" 2>/dev/null | grep -qxF -- "MAIL_FAKE_DIR=$MAIL_FAKE_DIR" || return 1
+  local pid
+  pid="$(pid_from_file "$PIDFILE")" || return 1
+  cmdline_has "$pid" fake-smtp.ts && environ_has "$pid" "MAIL_FAKE_PORT=$MAIL_FAKE_PORT" && environ_has "$pid" "MAIL_FAKE_DIR=$MAIL_FAKE_DIR" || return 1
   echo "$pid"
-}
-
-port_in_use() {
-  (exec 3<>"/dev/tcp/127.0.0.1/$MAIL_FAKE_PORT") 2>/dev/null && { exec 3>&- 3<&-; return 0; }
-  return 1
 }
 
 start() {
   local pid
   if pid="$(our_pid)"; then say "mail catcher already running (pid $pid, 127.0.0.1:$MAIL_FAKE_PORT)"; return 0; fi
-  if port_in_use; then
+  if port_in_use "$MAIL_FAKE_PORT"; then
     die "port $MAIL_FAKE_PORT on 127.0.0.1 is taken by another program — stop it or choose another port with MAIL_FAKE_PORT=…"
   fi
   mkdir -p "$STATE" "$MAIL_FAKE_DIR"
@@ -42,7 +31,7 @@ start() {
     nohup node --import tsx scripts/fake-smtp.ts >"$LOG" 2>&1 </dev/null &
   local i
   for i in $(seq 1 80); do
-    if our_pid >/dev/null && port_in_use; then
+    if our_pid >/dev/null && port_in_use "$MAIL_FAKE_PORT"; then
       say "mail catcher on 127.0.0.1:$MAIL_FAKE_PORT (pid $(our_pid), messages in ${MAIL_FAKE_DIR#$ROOT/})"
       return 0
     fi
@@ -55,13 +44,7 @@ start() {
 stop() {
   local pid
   if ! pid="$(our_pid)"; then say "mail catcher not running (port $MAIL_FAKE_PORT)"; rm -f "$PIDFILE"; return 0; fi
-  kill "$pid" 2>/dev/null || true
-  local i
-  for i in $(seq 1 40); do
-    [ -d "/proc/$pid" ] && [ "$(awk '/^State:/ {print $2}' "/proc/$pid/status" 2>/dev/null)" != "Z" ] || break
-    sleep 0.1
-  done
-  [ -d "/proc/$pid" ] && kill -9 "$pid" 2>/dev/null || true
+  stop_pid "$pid" 4 || true
   rm -f "$PIDFILE"
   say "mail catcher stopped (port $MAIL_FAKE_PORT)"
 }

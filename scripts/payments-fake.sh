@@ -12,26 +12,16 @@ LOG="$STATE/$PAYMENTS_FAKE_PORT.log"
 
 # Ours when the pid runs (not a zombie) and really is the payment fake on our port.
 our_pid() {
-  [ -f "$PIDFILE" ] || return 1
-  local pid state
-  pid="$(cat "$PIDFILE" 2>/dev/null)" || return 1
-  [ -n "$pid" ] && [ -d "/proc/$pid" ] || return 1
-  state="$(awk '/^State:/ {print $2}' "/proc/$pid/status" 2>/dev/null)"
-  [ "$state" != "Z" ] || return 1
-  tr '\0' ' ' <"/proc/$pid/cmdline" 2>/dev/null | grep -q -- "fake-payments.ts" || return 1
-  tr '\0' '\n' <"/proc/$pid/environ" 2>/dev/null | grep -qx -- "PAYMENTS_FAKE_PORT=$PAYMENTS_FAKE_PORT" || return 1
+  local pid
+  pid="$(pid_from_file "$PIDFILE")" || return 1
+  cmdline_has "$pid" fake-payments.ts && environ_has "$pid" "PAYMENTS_FAKE_PORT=$PAYMENTS_FAKE_PORT" || return 1
   echo "$pid"
-}
-
-port_in_use() {
-  (exec 3<>"/dev/tcp/127.0.0.1/$PAYMENTS_FAKE_PORT") 2>/dev/null && { exec 3>&- 3<&-; return 0; }
-  return 1
 }
 
 start() {
   local pid
   if pid="$(our_pid)"; then say "payment fake already running (pid $pid, 127.0.0.1:$PAYMENTS_FAKE_PORT)"; return 0; fi
-  if port_in_use; then
+  if port_in_use "$PAYMENTS_FAKE_PORT"; then
     die "port $PAYMENTS_FAKE_PORT on 127.0.0.1 is taken by another program — stop it or choose another port with PAYMENTS_FAKE_PORT=…"
   fi
   mkdir -p "$STATE"
@@ -40,7 +30,7 @@ start() {
     nohup node --import tsx scripts/fake-payments.ts >"$LOG" 2>&1 </dev/null &
   local i
   for i in $(seq 1 80); do
-    if our_pid >/dev/null && port_in_use; then
+    if our_pid >/dev/null && port_in_use "$PAYMENTS_FAKE_PORT"; then
       say "payment fake on http://127.0.0.1:$PAYMENTS_FAKE_PORT (pid $(our_pid), log ${LOG#$ROOT/})"
       return 0
     fi
@@ -53,13 +43,7 @@ start() {
 stop() {
   local pid
   if ! pid="$(our_pid)"; then say "payment fake not running (port $PAYMENTS_FAKE_PORT)"; rm -f "$PIDFILE"; return 0; fi
-  kill "$pid" 2>/dev/null || true
-  local i
-  for i in $(seq 1 40); do
-    [ -d "/proc/$pid" ] && [ "$(awk '/^State:/ {print $2}' "/proc/$pid/status" 2>/dev/null)" != "Z" ] || break
-    sleep 0.1
-  done
-  [ -d "/proc/$pid" ] && kill -9 "$pid" 2>/dev/null || true
+  stop_pid "$pid" 4 || true
   rm -f "$PIDFILE"
   say "payment fake stopped (port $PAYMENTS_FAKE_PORT)"
 }

@@ -20,7 +20,9 @@ if [ "$MAIL_FAKE_PORT" = 2527 ]; then MAIL_FAKE_DIR_DEFAULT="$ROOT/.data/test-ma
 export MAIL_FAKE_DIR="${TEST_MAIL_FAKE_DIR:-$MAIL_FAKE_DIR_DEFAULT}"
 export SMTP_URL="smtp://127.0.0.1:$MAIL_FAKE_PORT"
 unset APP_URL
-export UPLOAD_DIR="${TEST_UPLOAD_DIR:-$ROOT/.data/test-uploads}"
+# Runs on other ports (several at once) keep their uploads and result files apart.
+run_suffix=""; [ "$TEST_APP_PORT" = 4327 ] || run_suffix="-$TEST_APP_PORT"
+export UPLOAD_DIR="${TEST_UPLOAD_DIR:-$ROOT/.data/test-uploads$run_suffix}"
 # Payments go to a local payment fake of the test run's own port, never to the real service.
 export PAYMENTS_FAKE_PORT="${PAYMENTS_FAKE_PORT:-12112}"
 export STRIPE_SECRET_KEY=sk_test_platewright_local_fake_key STRIPE_WEBHOOK_SECRET=whsec_platewright_local_fake_secret
@@ -53,14 +55,19 @@ npx tsx scripts/migrate.ts
 ensure_build
 
 mkdir -p .test-artifacts
+filters=("$@")
 status=0
 summary=()
+# TEST_SUITES="unit e2e" runs only those suites; arguments (npm test -- FILTER…) go to vitest as
+# file filters, e.g. `TEST_SUITES=e2e npm test -- editor`.
+suites="${TEST_SUITES:-unit integration e2e}"
 run_suite() {
   local name="$1" config="$2"
+  case " $suites " in *" $name "*) ;; *) return 0 ;; esac
   say "running $name tests"
-  local out=".test-artifacts/$name-results.json"
+  local out=".test-artifacts/$name-results$run_suffix.json"
   rm -f "$out"
-  if npx vitest run --config "$config" --reporter=default --reporter=json --outputFile.json="$out"; then :; else status=1; fi
+  if npx vitest run --config "$config" --reporter=default --reporter=json --outputFile.json="$out" "${filters[@]}"; then :; else status=1; fi
   if [ -f "$out" ]; then
     summary+=("$name: $(node scripts/test-summary.cjs "$out")")
   else
@@ -78,5 +85,7 @@ run_suite e2e vitest.e2e.config.ts
 
 say "finished in $(( $(date +%s) - started )) s"
 for s in "${summary[@]}"; do say "$s"; done
-node scripts/test-summary.cjs .test-artifacts/unit-results.json .test-artifacts/integration-results.json .test-artifacts/e2e-results.json
+results=()
+for n in unit integration e2e; do case " $suites " in *" $n "*) results+=(".test-artifacts/$n-results$run_suffix.json") ;; esac; done
+node scripts/test-summary.cjs "${results[@]}"
 exit $status

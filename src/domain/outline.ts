@@ -57,9 +57,24 @@ function angleAtRad(center: Point2, p: Point2): number {
 }
 
 /**
+ * The chain as segments this module measures: a chain of one arc whose start equals its end
+ * (how the exports and the kernel may hold a full circle) becomes two half arcs in the same
+ * direction; every other chain is returned as it is.
+ */
+function chainSegments(segments: readonly OutlineSegment[]): readonly OutlineSegment[] {
+  if (segments.length !== 1) return segments;
+  const s = segments[0]!;
+  if (s.kind !== 'arc' || !(s.radiusMm > OUTLINE_LENGTH_TOLERANCE_MM)) return segments;
+  if (Math.hypot(s.end.x - s.start.x, s.end.y - s.start.y) > OUTLINE_LENGTH_TOLERANCE_MM) return segments;
+  const c = s.center;
+  const opposite = point(2 * c.x - s.start.x, 2 * c.y - s.start.y);
+  return [arc(s.start, opposite, c, s.radiusMm, s.ccw), arc(opposite, s.start, c, s.radiusMm, s.ccw)];
+}
+
+/**
  * Signed sweep of an arc in radians: in (0, 2π) for counter-clockwise arcs, in (−2π, 0) for
- * clockwise ones. Chains made here never hold a full-circle arc (a circle is two half arcs), so a
- * start equal to its end means a vanishing arc.
+ * clockwise ones. Inside a chain a start equal to its end means a vanishing arc; a chain of ONE
+ * such arc is a full circle (see `chainSegments`).
  */
 export function arcSweepRad(seg: ArcSegment): number {
   const d = normaliseRad(angleAtRad(seg.center, seg.end) - angleAtRad(seg.center, seg.start));
@@ -81,7 +96,7 @@ export function segmentLengthMm(seg: OutlineSegment): number {
 /** Perimeter of a chain (mm), exact for arcs. */
 export function outlinePerimeterMm(segments: readonly OutlineSegment[]): number {
   let p = 0;
-  for (const s of segments) p += segmentLengthMm(s);
+  for (const s of chainSegments(segments)) p += segmentLengthMm(s);
   return p;
 }
 
@@ -100,7 +115,7 @@ function segmentAreaTermMm2(seg: OutlineSegment): number {
 /** Signed area of a closed chain (mm², positive when counter-clockwise). */
 export function outlineSignedAreaMm2(segments: readonly OutlineSegment[]): number {
   let a = 0;
-  for (const s of segments) a += segmentAreaTermMm2(s);
+  for (const s of chainSegments(segments)) a += segmentAreaTermMm2(s);
   return a;
 }
 
@@ -124,7 +139,7 @@ export function outlineBBox(segments: readonly OutlineSegment[]): BoundingBox {
     maxX = Math.max(maxX, p.x);
     maxY = Math.max(maxY, p.y);
   };
-  for (const s of segments) {
+  for (const s of chainSegments(segments)) {
     add(s.start);
     add(s.end);
     if (s.kind === 'arc') {
@@ -180,10 +195,11 @@ export function closestPointOnOutline(
     throw new DomainError('outline.empty', 'The outline has no segments, so no point lies on it.');
   }
   let best = { point: segments[0]!.start, distanceMm: Infinity, segmentIndex: 0 };
-  segments.forEach((s, i) => {
+  // a one-arc full circle is measured as its two halves; both are segment 0 of the caller's chain
+  chainSegments(segments).forEach((s, i) => {
     const q = closestPointOnSegment(s, p);
     const d = Math.hypot(q.x - p.x, q.y - p.y);
-    if (d < best.distanceMm) best = { point: q, distanceMm: d, segmentIndex: i };
+    if (d < best.distanceMm) best = { point: q, distanceMm: d, segmentIndex: Math.min(i, segments.length - 1) };
   });
   return Object.freeze(best);
 }
@@ -201,7 +217,7 @@ export function distanceToOutline(segments: readonly OutlineSegment[], p: Point2
  */
 export function windingNumber(segments: readonly OutlineSegment[], p: Point2): number {
   let total = 0;
-  for (const s of segments) {
+  for (const s of chainSegments(segments)) {
     const ax = s.start.x - p.x;
     const ay = s.start.y - p.y;
     const bx = s.end.x - p.x;

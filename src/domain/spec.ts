@@ -18,6 +18,7 @@
  */
 import { z } from 'zod';
 import { DomainError } from './errors';
+import { HOLE_FLAGS } from './measure/holeQuality';
 import { stackUpInputsSchema } from './stackUp';
 import { capScrewHead } from './standards/capScrews';
 import { CLEARANCE_CLASSES, clearanceRangeMm, type ClearanceClass } from './standards/clearanceHoles';
@@ -90,6 +91,21 @@ export const boltPatternSchema = z
         centerY: mm,
         rmsMm: nonNegativeMm,
         fromUploadId: z.string().min(1).max(64).optional(),
+        /** RMS of the holes' angular positions about the pattern's best angles */
+        angularRmsDeg: z.number(need('must be a number of degrees')).min(0).optional(),
+        /** measured holes the circle was fitted through */
+        holeCount: z.int(need('must be a whole number of holes')).min(1).max(360).optional(),
+        /** when a bore was fitted: the bolt circle centre's distance from the bore axis, TIR = 2 × offset */
+        bore: z
+          .object({
+            offsetMm: nonNegativeMm,
+            tirMm: nonNegativeMm,
+            diameterMm: positiveMm.optional(),
+            cylindricityMm: nonNegativeMm.optional(),
+            tiltDeg: z.number(need('must be a number of degrees')).min(0).max(90).optional(),
+          })
+          .strict()
+          .optional(),
       })
       .strict()
       .optional(),
@@ -204,12 +220,37 @@ function refineHoleRole(h: HoleFields, ctx: z.RefinementCtx): void {
 }
 
 /**
+ * Where a measured hole's numbers came from: its circle fit on the scanned face (centre in the
+ * upload's face coordinates u, v), the fit's quality figures and flags, the nearest standard size
+ * (measured − standard) and the upload. Written when a measured pattern is applied; the hole's
+ * place and size are still its other fields.
+ */
+export const measuredHoleSchema = z
+  .object({
+    fromUploadId: z.string(need('must be the id of the upload (text)')).min(1).max(64),
+    centerU: mm,
+    centerV: mm,
+    diameterMm: positiveMm,
+    rmsMm: nonNegativeMm,
+    roundnessMm: nonNegativeMm,
+    points: z.int(need('must be a whole number of points')).min(0),
+    arcCoverageDeg: deg.min(0).max(360),
+    flags: z.array(z.enum(HOLE_FLAGS, need(`must be one of ${HOLE_FLAGS.join(', ')}`)), need('must be a list of flags (may be empty)')).max(HOLE_FLAGS.length),
+    nearest: z.object({ label: z.string().min(1).max(80), differenceMm: mm }).strict().optional(),
+    /** the hole's distance off the fitted bolt circle (+ outside) and its angle off the pattern's slot */
+    radialDeviationMm: mm.optional(),
+    angleDeviationDeg: deg.optional(),
+  })
+  .strict();
+
+/**
  * A hole of one flange pattern: at `x, y` (face coordinates, as measured) or at slot `index`
  * (0-based) of bolt circle `patternId` of the same face.
  */
 export const holeSchema = z
   .object({
     ...holeFields,
+    fitted: measuredHoleSchema.optional(),
     x: mm.optional(),
     y: mm.optional(),
     patternId: featureIdSchema.optional(),
@@ -535,6 +576,7 @@ export type PlateSpec = z.infer<typeof plateSpecSchema>;
 export type PlateSpecInput = z.input<typeof plateSpecSchema>;
 export type FaceSpec = PlateSpec['engineFace'];
 export type HoleSpec = FaceSpec['holes'][number];
+export type MeasuredHoleSpec = z.infer<typeof measuredHoleSchema>;
 export type BoltPatternSpec = FaceSpec['patterns'][number];
 export type StarterSpec = NonNullable<PlateSpec['starter']>;
 export type StarterHoleSpec = StarterSpec['mountingHoles'][number];

@@ -238,6 +238,7 @@ function Workspace({ projectId, canEdit, plates, blankSpec }: Props) {
         measured: pattern,
         fromUploadId: String(open.id),
         source: open.fileName,
+        bore: bore ? { diameterMm: bore.diameterMm, cylindricityMm: bore.cylindricityMm } : undefined,
         holes: pattern.holes.map((ph, i) => {
           const h = chosen[i]!;
           const row = rowFor(h);
@@ -249,6 +250,8 @@ function Workspace({ projectId, canEdit, plates, blankSpec }: Props) {
             fastener: row.role === 'dowel' ? undefined : row.fastener || undefined,
             clearanceClass: row.role === 'clearance' && size?.kind === 'clearance' && size.fitClass ? size.fitClass : undefined,
             quality: {
+              centerU: h.centerU,
+              centerV: h.centerV,
               diameterMm: ph.diameterMm,
               rmsMm: h.rmsMm,
               roundnessMm: h.roundnessMm,

@@ -4,15 +4,18 @@
  * The pattern is stored with explicit angles (as measured, in the view the builder chose) and its
  * `fitted` record: the bolt circle's centre relative to the face's shaft axis (the bore's axis
  * when a bore was fitted, else the bolt circle's own centre) and its RMS, with the upload it came
- * from. The pattern's centre is placed so that the shaft axis lands on the plate's origin. Each
- * hole references its slot of the pattern and carries its fit figures in its note, so the
+ * from, the angular RMS, the number of holes and, when a bore was fitted, the bolt circle's offset
+ * from the bore axis and its TIR. The pattern's centre is placed so that the shaft axis lands on
+ * the plate's origin. Each hole references its slot of the pattern and carries its own `fitted`
+ * record (measured centre in face coordinates, Ø, RMS, roundness, rim points, arc coverage,
+ * flags, nearest standard size, upload) and the same figures in words in its note, so the
  * engineer sees where every number came from.
  *
  * An earlier pattern with the same id on that face is replaced, with its holes.
  */
 import { DomainError } from '../errors';
 import type { ClearanceClass } from '../standards/clearanceHoles';
-import { parsePlateSpec, type PlateSpec } from '../spec';
+import { parsePlateSpec, type MeasuredHoleSpec, type PlateSpec } from '../spec';
 import { HOLE_FLAG_TEXT, type HoleFlag } from './holeQuality';
 import type { MeasuredPattern } from './pattern';
 
@@ -26,6 +29,9 @@ export interface AppliedHole {
   readonly dowelDiameterMm?: number;
   /** the fit's figures for this hole */
   readonly quality: {
+    /** the hole's fitted centre in the upload's face coordinates */
+    readonly centerU: number;
+    readonly centerV: number;
     readonly diameterMm: number;
     readonly rmsMm: number;
     readonly roundnessMm: number;
@@ -46,6 +52,8 @@ export interface PatternToApply {
   readonly fromUploadId: string;
   /** what the upload is, for the notes (file name) */
   readonly source?: string;
+  /** the fitted bore whose axis is the face's shaft axis, if any */
+  readonly bore?: { readonly diameterMm: number; readonly cylindricityMm?: number };
 }
 
 const r4 = (x: number) => Math.round(x * 1e4) / 1e4 + 0;
@@ -69,6 +77,25 @@ function patternNote(p: PatternToApply, source: string): string {
     ? `; bolt circle centre ${f3(off.distanceMm)} mm from the bore axis (TIR ${f3(off.tirMm)} mm)`
     : '; no bore fitted: the bolt circle centre is taken as the shaft axis';
   return (base + axis).slice(0, 500);
+}
+
+/** The hole's own fit record, rounded to 0.1 µm like the pattern's figures. */
+function measuredHole(h: AppliedHole, onCircle: MeasuredPattern['holes'][number], fromUploadId: string): MeasuredHoleSpec {
+  const q = h.quality;
+  return {
+    fromUploadId,
+    centerU: r4(q.centerU),
+    centerV: r4(q.centerV),
+    diameterMm: r4(q.diameterMm),
+    rmsMm: r4(q.rmsMm),
+    roundnessMm: r4(q.roundnessMm),
+    points: q.n,
+    arcCoverageDeg: r4(Math.min(360, Math.max(0, q.arcCoverageDeg))),
+    flags: [...new Set(q.flags)],
+    ...(q.nearest ? { nearest: { label: q.nearest.label.slice(0, 80), differenceMm: r4(q.nearest.differenceMm) } } : {}),
+    radialDeviationMm: r4(onCircle.radialDeviationMm),
+    angleDeviationDeg: r4(onCircle.deviationDeg),
+  };
 }
 
 /** A new spec with the pattern on the face; the input spec is not changed. */
@@ -101,12 +128,24 @@ export function applyPatternToSpec(spec: PlateSpec, face: FaceName, pattern: Pat
 
   const bc = pattern.measured.boltCircle;
   const axis = pattern.measured.axis;
-  const fitted = {
+  const off = pattern.measured.offset;
+  const fitted: NonNullable<PlateSpec['engineFace']['patterns'][number]['fitted']> = {
     centerX: r4(axis ? bc.centerX - axis.x : 0),
     centerY: r4(axis ? bc.centerY - axis.y : 0),
     rmsMm: r4(bc.rms),
     fromUploadId: pattern.fromUploadId,
+    angularRmsDeg: r4(bc.angularRmsDeg),
+    holeCount: pattern.measured.holes.length,
   };
+  if (axis && off) {
+    fitted.bore = {
+      offsetMm: r4(off.distanceMm),
+      tirMm: r4(off.tirMm),
+      ...(pattern.bore ? { diameterMm: r4(pattern.bore.diameterMm) } : {}),
+      ...(pattern.bore?.cylindricityMm !== undefined ? { cylindricityMm: r4(pattern.bore.cylindricityMm) } : {}),
+      tiltDeg: r4(Math.min(90, Math.max(0, axis.tiltDeg))),
+    };
+  }
   const source = pattern.source ? `upload ${pattern.fromUploadId} (${pattern.source})` : `upload ${pattern.fromUploadId}`;
   f.patterns.push({
     id: pattern.patternId,
@@ -118,7 +157,7 @@ export function applyPatternToSpec(spec: PlateSpec, face: FaceName, pattern: Pat
     note: patternNote(pattern, source),
   } as PlateSpec['engineFace']['patterns'][number]);
   pattern.holes.forEach((h, index) => {
-    const hole: Record<string, unknown> = { id: h.id, role: h.role, patternId: pattern.patternId, index, note: holeNote(h, source) };
+    const hole: Record<string, unknown> = { id: h.id, role: h.role, patternId: pattern.patternId, index, fitted: measuredHole(h, pattern.measured.holes[index]!, pattern.fromUploadId), note: holeNote(h, source) };
     if (h.role === 'dowel') hole.dowel = { diameterMm: h.dowelDiameterMm ?? r4(h.quality.diameterMm), fit: 'H7' };
     else {
       if (h.fastener) hole.fastener = h.fastener;

@@ -34,7 +34,8 @@ export const DEFAULT_HOLE_LIMITS: HoleLimits = Object.freeze({
   maxDentMm: 0.12,
 });
 
-export type HoleFlag = 'few-points' | 'short-arc' | 'high-rms' | 'out-of-round' | 'oval' | 'dent';
+export const HOLE_FLAGS = ['few-points', 'short-arc', 'high-rms', 'out-of-round', 'oval', 'dent'] as const;
+export type HoleFlag = (typeof HOLE_FLAGS)[number];
 
 export const HOLE_FLAG_TEXT: Readonly<Record<HoleFlag, string>> = Object.freeze({
   'few-points': 'too few rim points',

@@ -98,7 +98,7 @@ describe('applying a measured pattern to the plate spec', () => {
       role: 'clearance',
       fastener: 'M10',
       clearanceClass: 'medium',
-      quality: { diameterMm: 11.02, rmsMm: 0.012, roundnessMm: 0.05, n: 120, arcCoverageDeg: 352, flags: flags[i] ?? [], nearest: { label: 'ISO 273 medium M10', differenceMm: 0.02 } },
+      quality: { centerU: holes[i]!.centerU, centerV: holes[i]!.centerV, diameterMm: 11.02, rmsMm: 0.012, roundnessMm: 0.05, n: 120, arcCoverageDeg: 352, flags: flags[i] ?? [], nearest: { label: 'ISO 273 medium M10', differenceMm: 0.02 } },
     }));
   const ids = ['T1', 'T2', 'T3', 'T4', 'T5', 'T6'];
 
@@ -113,13 +113,46 @@ describe('applying a measured pattern to the plate spec', () => {
     expect(p.diameterMm).toBeCloseTo(200, 3);
     expect(p.anglesDeg!.map((a) => Math.round(a))).toEqual([30, 90, 150, 210, 270, 330]);
     // the circle sits 0.3, 0.1 from the bore axis, and the axis lands on the plate's origin
-    expect(p.fitted).toEqual({ centerX: 0.3, centerY: 0.1, rmsMm: 0, fromUploadId: '42' });
+    // six exact centres: no scatter, angles exactly 60° apart; offset √(0.3² + 0.1²) = 0.3162 mm
+    expect(p.fitted).toEqual({ centerX: 0.3, centerY: 0.1, rmsMm: 0, fromUploadId: '42', angularRmsDeg: 0, holeCount: 6, bore: { offsetMm: 0.3162, tirMm: 0.6325, tiltDeg: 0 } });
     expect(p.centerX - p.fitted!.centerX).toBe(0);
     expect(p.note).toMatch(/^fitted from upload 42 \(bell\.ply\): Ø200\.000 mm bolt circle over 6 holes.*0\.316 mm from the bore axis \(TIR 0\.632 mm\)/);
     expect(f.holes.map((h) => [h.id, h.patternId, h.index])).toEqual(ids.map((id, i) => [id, 'TB', i]));
     expect(f.holes[0]!.note).toBe('fitted from upload 42 (bell.ply): Ø11.020 mm, rms 0.012 mm, roundness 0.050 mm, 120 rim points over 352°; nearest standard ISO 273 medium M10 (+0.020 mm); no flags');
     expect(f.holes[1]!.note).toMatch(/flagged: oval, out of round$/);
     expect(f.holes[0]!.clearanceClass).toBe('medium');
+    // each hole keeps its own fit record: centre where it was measured on the face (ring about 0.3, 0.1, from 30°)
+    const h0 = f.holes[0]!.fitted!;
+    expect(h0).toEqual({
+      fromUploadId: '42',
+      centerU: Math.round((0.3 + 100 * Math.cos(Math.PI / 6)) * 1e4) / 1e4,
+      centerV: Math.round((0.1 + 100 * Math.sin(Math.PI / 6)) * 1e4) / 1e4,
+      diameterMm: 11.02,
+      rmsMm: 0.012,
+      roundnessMm: 0.05,
+      points: 120,
+      arcCoverageDeg: 352,
+      flags: [],
+      nearest: { label: 'ISO 273 medium M10', differenceMm: 0.02 },
+      radialDeviationMm: 0,
+      angleDeviationDeg: 0,
+    });
+    expect(f.holes[1]!.fitted!.flags).toEqual(['oval', 'out-of-round']);
+    expect(f.holes.every((h) => h.fitted?.fromUploadId === '42')).toBe(true);
+  });
+
+  it('without a bore the pattern records no bore offset, and its figures stay in the JSON round trip', () => {
+    const noBore = measuredPattern(holes);
+    const next = applyPatternToSpec(blank, 'engine', { patternId: 'EB', viewedFrom: 'rear', measured: noBore, holes: applied(ids.map((i) => i.replace('T', 'E'))), fromUploadId: '7' });
+    const p = next.engineFace.patterns[0]!;
+    expect(p.fitted).toEqual({ centerX: 0, centerY: 0, rmsMm: 0, fromUploadId: '7', angularRmsDeg: 0, holeCount: 6 });
+    expect(p.note).toMatch(/no bore fitted/);
+    expect(parsePlateSpec(JSON.parse(JSON.stringify(next)))).toEqual(next);
+  });
+
+  it('applies a bore with its diameter and cylindricity to the pattern record', () => {
+    const next = applyPatternToSpec(blank, 'transmission', { patternId: 'TB', viewedFrom: 'front', measured, holes: applied(ids), fromUploadId: '9', bore: { diameterMm: 110.00012, cylindricityMm: 0.01234 } });
+    expect(next.transmissionFace.patterns[0]!.fitted!.bore).toEqual({ offsetMm: 0.3162, tirMm: 0.6325, diameterMm: 110.0001, cylindricityMm: 0.0123, tiltDeg: 0 });
   });
 
   it('replaces an earlier pattern of the same id, with its holes', () => {

@@ -487,12 +487,13 @@ function segmentsCross(p1: Point2, p2: Point2, q1: Point2, q2: Point2): boolean 
  * A user polygon as a closed counter-clockwise chain; with `cornerRadiusMm` > 0 every corner is
  * rounded by a true arc tangent to both edges (convex corners turn counter-clockwise, concave
  * ones clockwise). Points may be given in either direction; a clockwise polygon is reversed.
- * Collinear points are dropped.
+ * Collinear points are dropped. `cornerRadiiMm[i]` (when given) rounds corner i by its own radius
+ * (0 = sharp), overriding `cornerRadiusMm` there.
  *
  * @throws DomainError `outline.polygon` (fewer than 3 corners, repeated points, crossing edges),
  *   `outline.cornerRadius` (a fillet does not fit on its edges)
  */
-export function polygonOutline(points: readonly Point2[], cornerRadiusMm = 0): OutlineSegment[] {
+export function polygonOutline(points: readonly Point2[], cornerRadiusMm = 0, cornerRadiiMm?: readonly (number | null | undefined)[]): OutlineSegment[] {
   const path = ['outline', 'points'];
   if (!(cornerRadiusMm >= 0) || !Number.isFinite(cornerRadiusMm)) {
     throw new DomainError('outline.cornerRadius', `outline.cornerRadiusMm must be zero or more, got ${String(cornerRadiusMm)}.`, [
@@ -500,6 +501,16 @@ export function polygonOutline(points: readonly Point2[], cornerRadiusMm = 0): O
       'cornerRadiusMm',
     ]);
   }
+  if (cornerRadiiMm && cornerRadiiMm.length > points.length) {
+    throw new DomainError('outline.cornerRadius', `outline.cornerRadiiMm has ${cornerRadiiMm.length} radii for ${points.length} corners.`, ['outline', 'cornerRadiiMm']);
+  }
+  cornerRadiiMm?.forEach((r, i) => {
+    if (r !== null && r !== undefined && (!(r >= 0) || !Number.isFinite(r))) {
+      throw new DomainError('outline.cornerRadius', `The radius at corner ${i + 1} must be zero or more, got ${String(r)}.`, ['outline', 'cornerRadiiMm', i]);
+    }
+  });
+  /** the radius at the user's corner i: its own, else the common one */
+  const radiusAt = (i: number): number => cornerRadiiMm?.[i] ?? cornerRadiusMm;
   if (points.length < 3) {
     throw new DomainError('outline.polygon', `outline.points needs at least 3 corners, got ${points.length}.`, path);
   }
@@ -520,7 +531,7 @@ export function polygonOutline(points: readonly Point2[], cornerRadiusMm = 0): O
       if (segmentsCross(points[a]!, points[(a + 1) % m]!, points[b]!, points[(b + 1) % m]!)) {
         throw new DomainError(
           'outline.polygon',
-          `The outline polygon crosses itself: the edge after outline.points.${a} crosses the edge after outline.points.${b}.`,
+          `The outline polygon crosses itself: the edge from corner ${a + 1} to ${((a + 1) % m) + 1} crosses the edge from corner ${b + 1} to ${((b + 1) % m) + 1} (outline.points.${a} and outline.points.${b}).`,
           path,
         );
       }
@@ -550,7 +561,7 @@ export function polygonOutline(points: readonly Point2[], cornerRadiusMm = 0): O
     return Math.abs(turn) > 1e-9;
   });
   const n = corners.length;
-  if (cornerRadiusMm <= OUTLINE_LENGTH_TOLERANCE_MM) {
+  if (corners.every((c) => radiusAt(c.i) <= OUTLINE_LENGTH_TOLERANCE_MM)) {
     return closeChain(corners.map((c, k) => line(c.p, corners[(k + 1) % n]!.p)));
   }
 
@@ -560,8 +571,10 @@ export function polygonOutline(points: readonly Point2[], cornerRadiusMm = 0): O
     readonly center: Point2;
     readonly ccw: boolean;
     readonly setbackMm: number;
+    readonly radiusMm: number;
   }
   const fillets: Fillet[] = corners.map((v, k) => {
+    const cornerRadiusMm = radiusAt(v.i);
     const a = corners[(k - 1 + n) % n]!.p;
     const b = corners[(k + 1) % n]!.p;
     const l1 = Math.hypot(v.p.x - a.x, v.p.y - a.y);
@@ -574,13 +587,20 @@ export function polygonOutline(points: readonly Point2[], cornerRadiusMm = 0): O
     const end = point(v.p.x + u2.x * setbackMm, v.p.y + u2.y * setbackMm);
     const side = turn > 0 ? 1 : -1; // centre to the left of the edge for a left (ccw) turn
     const center = point(start.x - u1.y * cornerRadiusMm * side, start.y + u1.x * cornerRadiusMm * side);
-    return { start, end, center, ccw: turn > 0, setbackMm };
+    return { start, end, center, ccw: turn > 0, setbackMm, radiusMm: cornerRadiusMm };
   });
   for (let k = 0; k < n; k++) {
     const here = corners[k]!;
     const nextK = (k + 1) % n;
     const edge = Math.hypot(corners[nextK]!.p.x - here.p.x, corners[nextK]!.p.y - here.p.y);
     const need = fillets[k]!.setbackMm + fillets[nextK]!.setbackMm;
+    if (need > edge + 1e-9 && cornerRadiiMm) {
+      throw new DomainError(
+        'outline.cornerRadius',
+        `The corner radii are too large for the edge from corner ${here.i + 1} to corner ${corners[nextK]!.i + 1}: the fillets need ${need.toFixed(3)} mm of an edge ${edge.toFixed(3)} mm long. Make a radius smaller or the edge longer.`,
+        ['outline', 'cornerRadiiMm', fillets[k]!.setbackMm >= fillets[nextK]!.setbackMm ? here.i : corners[nextK]!.i],
+      );
+    }
     if (need > edge + 1e-9) {
       throw new DomainError(
         'outline.cornerRadius',
@@ -593,7 +613,7 @@ export function polygonOutline(points: readonly Point2[], cornerRadiusMm = 0): O
   for (let k = 0; k < n; k++) {
     const f = fillets[k]!;
     const g = fillets[(k + 1) % n]!;
-    segments.push(arc(f.start, f.end, f.center, cornerRadiusMm, f.ccw));
+    if (f.radiusMm > OUTLINE_LENGTH_TOLERANCE_MM) segments.push(arc(f.start, f.end, f.center, f.radiusMm, f.ccw));
     if (Math.hypot(g.start.x - f.end.x, g.start.y - f.end.y) > OUTLINE_LENGTH_TOLERANCE_MM) segments.push(line(f.end, g.start));
   }
   return closeChain(segments);

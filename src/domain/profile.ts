@@ -423,7 +423,7 @@ export function resolvePlate(spec: PlateSpec): ResolvedPlate {
     const discs = [...features.map((f) => featureDisc(f.hole)), ...starter.pockets.flatMap((p) => p.discs)];
     outline = autoOutline(discs, { edgeMarginMm: spec.outline.edgeMarginMm, cornerRadiusMm: spec.outline.cornerRadiusMm });
   } else {
-    outline = polygonOutline(spec.outline.points, spec.outline.cornerRadiusMm);
+    outline = polygonOutline(spec.outline.points, spec.outline.cornerRadiusMm, spec.outline.cornerRadiiMm);
   }
   const profile: PlateProfile = Object.freeze({
     thicknessMm: spec.thicknessMm,

@@ -476,6 +476,8 @@ export const outlineSchema = z.discriminatedUnion(
         /** corners in plate coordinates (either direction) */
         points: z.array(point2Schema).min(3, { error: 'needs at least 3 corners' }),
         cornerRadiusMm: nonNegativeMm.default(0),
+        /** radius of each corner in the order of `points` (0 = sharp); a missing one takes cornerRadiusMm */
+        cornerRadiiMm: z.array(nonNegativeMm.nullable()).optional(),
       })
       .strict(),
   ],

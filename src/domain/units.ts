@@ -45,6 +45,16 @@ function unitOf(token: string | undefined, defaultUnit: LengthUnit): LengthUnit 
   return token.toLowerCase().startsWith('m') ? 'mm' : 'in';
 }
 
+/** What a value that is not text is, in words, for messages: "a number (12)", "a list", "nothing". */
+export function describeValue(v: unknown): string {
+  if (v === null || v === undefined) return 'nothing';
+  if (typeof v === 'number') return Number.isFinite(v) ? `a number (${v})` : 'a number that is not finite';
+  if (typeof v === 'boolean') return `${v} (yes/no)`;
+  if (Array.isArray(v)) return 'a list';
+  if (typeof v === 'object') return 'an object';
+  return `a ${typeof v}`;
+}
+
 function invalid(text: string, why: string, defaultUnit: LengthUnit, path?: (string | number)[]): DomainError {
   const where = path && path.length > 0 ? ` at ${path.join('.')}` : '';
   return new DomainError(
@@ -71,7 +81,8 @@ export function parseLength(text: string, defaultUnit: LengthUnit, path?: (strin
     throw new DomainError('length.unit', `Unknown length unit "${String(defaultUnit)}": use "mm" or "in".`, path);
   }
   if (typeof text !== 'string') {
-    throw invalid(String(text), 'expected text', defaultUnit, path);
+    const where = path && path.length > 0 ? ` at ${path.join('.')}` : '';
+    throw new DomainError('length.invalid', `A length${where} must be text such as "12.7", "12.7 mm" or "1/2 in"; got ${describeValue(text)} (without a unit: ${defaultUnit}).`, path);
   }
   const trimmed = text.trim();
   if (trimmed === '') throw invalid(text, 'the field is empty', defaultUnit, path);

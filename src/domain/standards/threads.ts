@@ -14,7 +14,7 @@
  * ASME B1.1 UNC/UNF pitches (#4 to 1 in). Tables from memory of those standards.
  */
 import { DomainError } from '../errors';
-import { MM_PER_IN } from '../units';
+import { describeValue, MM_PER_IN } from '../units';
 
 export type ThreadSystem = 'metric' | 'unified';
 export type ThreadSeries = 'coarse' | 'fine';
@@ -178,9 +178,10 @@ function parseUnified(text: string, m: RegExpExecArray): Fastener {
  * @throws DomainError `fastener.unknown` with the reason and accepted forms
  */
 export function parseFastener(text: string): Fastener {
-  if (typeof text !== 'string' || text.trim() === '') {
-    throw unknown(String(text ?? ''), 'the field is empty');
+  if (typeof text !== 'string') {
+    throw new DomainError('fastener.unknown', `A fastener must be text such as "M10x1.5" or "3/8-16 UNC"; got ${describeValue(text)} (${EXAMPLES}).`);
   }
+  if (text.trim() === '') throw unknown(text, 'the field is empty');
   const t = text.trim();
   const metric = METRIC_RE.exec(t);
   if (metric) return parseMetric(text, metric);

@@ -102,3 +102,34 @@ describe('parseThread', () => {
     expect(parseThread('M10').pitchMm).toBe(1.5);
   });
 });
+
+describe('parseFastener — input that is not text (JSON from an untyped caller)', () => {
+  // common practice: the message says what was expected and what came instead, never "[object Object]"
+  const cases: [unknown, RegExp][] = [
+    [10, /got a number \(10\)/],
+    [null, /got nothing/],
+    [undefined, /got nothing/],
+    [false, /got false \(yes\/no\)/],
+    [['M10'], /got a list/],
+    [{ size: 'M10' }, /got an object/],
+  ];
+  for (const [input, said] of cases) {
+    it(`${JSON.stringify(input) ?? String(input)} → a DomainError saying a fastener must be text`, () => {
+      let err: unknown;
+      try {
+        parseFastener(input as never);
+      } catch (e) {
+        err = e;
+      }
+      expect(err).toBeInstanceOf(DomainError);
+      const e = err as DomainError;
+      expect(e.code).toBe('fastener.unknown');
+      expect(e.message).toMatch(/^A fastener must be text such as "M10x1\.5"/);
+      expect(e.message).toMatch(said);
+      expect(e.message).not.toMatch(/\[object Object\]|undefined/);
+    });
+  }
+  it('parseThread passes the same message on', () => {
+    expect(() => parseThread({} as never)).toThrow(/A fastener must be text such as "M10x1\.5".*got an object/);
+  });
+});

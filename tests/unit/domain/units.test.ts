@@ -152,3 +152,32 @@ describe('formatLength', () => {
     );
   });
 });
+
+describe('parseLength — input that is not text (JSON from an untyped caller)', () => {
+  // common practice: the message says what was expected and what came instead, never "[object Object]"
+  const cases: [unknown, RegExp][] = [
+    [12, /got a number \(12\)/],
+    [Number.NaN, /got a number that is not finite/],
+    [null, /got nothing/],
+    [undefined, /got nothing/],
+    [true, /got true \(yes\/no\)/],
+    [[], /got a list/],
+    [{ value: 12 }, /got an object/],
+  ];
+  for (const [input, said] of cases) {
+    it(`${JSON.stringify(input) ?? String(input)} → a DomainError saying a length must be text`, () => {
+      let err: unknown;
+      try {
+        parseLength(input as never, 'mm', ['holes', 0, 'diameter']);
+      } catch (e) {
+        err = e;
+      }
+      expect(err).toBeInstanceOf(DomainError);
+      const e = err as DomainError;
+      expect(e.code).toBe('length.invalid');
+      expect(e.message).toMatch(/^A length at holes\.0\.diameter must be text such as "12\.7"/);
+      expect(e.message).toMatch(said);
+      expect(e.message).not.toMatch(/\[object Object\]|undefined|NaN/);
+    });
+  }
+});

@@ -66,7 +66,7 @@ describe('standards fuzz', () => {
     );
     expect(parsed).toBeGreaterThan(50);
     // non-string input from an untyped caller (JSON) is refused the same way
-    for (const bad of [null, undefined, 12, {}, []]) domainCall('parseLength', () => parseLength(bad as never, 'mm'), { untypedInput: true });
+    for (const bad of [null, undefined, 12, {}, [], true, { toString: () => '12' }]) domainCall('parseLength', () => parseLength(bad as never, 'mm'));
   });
 
   it('parseFastener, tapDrillMm, clearanceHoleMm: finite results or DomainErrors', () => {
@@ -83,10 +83,10 @@ describe('standards fuzz', () => {
       { numRuns: 1500 },
     );
     expect(ok).toBeGreaterThan(50);
-    for (const bad of [null, undefined, 8, {}, []]) {
-      domainCall('parseFastener', () => parseFastener(bad as never), { untypedInput: true });
-      domainCall('tapDrillMm', () => tapDrillMm(bad as never), { untypedInput: true });
-      domainCall('clearanceHoleMm', () => clearanceHoleMm(bad as never, 'medium'), { untypedInput: true });
+    for (const bad of [null, undefined, 8, {}, [], false]) {
+      domainCall('parseFastener', () => parseFastener(bad as never));
+      domainCall('tapDrillMm', () => tapDrillMm(bad as never));
+      domainCall('clearanceHoleMm', () => clearanceHoleMm(bad as never, 'medium'));
     }
   });
 

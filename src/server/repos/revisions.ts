@@ -1,9 +1,12 @@
 import { and, asc, desc, eq, inArray, ne, sql } from 'drizzle-orm';
 import type { Db, Tx } from '../db/client';
-import { artifacts, plates, projects, reviews, revisions, users, type RevisionStatus } from '../db/schema';
+import { alias } from 'drizzle-orm/mysql-core';
+import { LRUCache } from 'lru-cache';
+import { artifacts, plates, projectMembers, projects, reviews, revisions, users, type RevisionStatus } from '../db/schema';
 import type { SessionUser } from '../auth/types';
 import { AppError, forbidden, notFound } from '../errors';
 import { audit } from './audit';
+import { artifactBytes } from '../files/artifactCache';
 import { assertProject } from './projects';
 import { assertPlateView, countFindings, findPlate } from './plates';
 import { runChecks, specSha256, validateSpec, profileOf, type Finding } from '../plateEngine';
@@ -104,43 +107,119 @@ export async function saveRevision(db: Db, user: SessionUser, plateId: number, i
   }
 }
 
-/** Full revision for a viewer: spec, checks, state, history of reviews and audit. */
-export async function getRevision(db: Db, user: SessionUser, revisionId: number) {
-  const r = await findRevision(db, revisionId);
+/** A revision's content never changes (database triggers): spec and checks are kept in memory by id + spec hash. */
+interface RevisionContent {
+  spec: unknown;
+  checks: Finding[];
+  checkCounts: { error: number; warning: number; note: number };
+}
+const contentCache = new LRUCache<string, RevisionContent>({ max: 500 });
+const contentKey = (id: number, specSha256: string, schemaVersion: number) => `${id}:${specSha256}:${schemaVersion}`;
+
+const parentRevisions = alias(revisions, 'parent_revisions');
+const authors = alias(users, 'authors');
+
+/**
+ * The revision with its plate, if this user may see it — one query. The rules: engineers and
+ * admins see every revision; designers those of projects they own or are members of; machinists
+ * approved revisions only. Anything else (including ids that do not exist) is 404, so nothing
+ * leaks about what exists. Always read fresh: status and membership change.
+ */
+export async function revisionForViewer(db: Db | Tx, user: SessionUser, revisionId: number) {
+  const [r] = await db
+    .select({
+      id: revisions.id,
+      plateId: revisions.plateId,
+      number: revisions.number,
+      parentRevisionId: revisions.parentRevisionId,
+      parentNumber: parentRevisions.number,
+      status: revisions.status,
+      specSha256: revisions.specSha256,
+      specSchemaVersion: revisions.specSchemaVersion,
+      authorId: revisions.authorId,
+      authorName: authors.name,
+      message: revisions.message,
+      createdAt: revisions.createdAt,
+      partNumber: plates.partNumber,
+      plateTitle: plates.title,
+      projectId: plates.projectId,
+      ownerId: projects.ownerId,
+      memberId: projectMembers.userId,
+    })
+    .from(revisions)
+    .innerJoin(plates, eq(plates.id, revisions.plateId))
+    .innerJoin(projects, eq(projects.id, plates.projectId))
+    .leftJoin(projectMembers, and(eq(projectMembers.projectId, projects.id), eq(projectMembers.userId, user.id)))
+    .leftJoin(authors, eq(authors.id, revisions.authorId))
+    .leftJoin(parentRevisions, eq(parentRevisions.id, revisions.parentRevisionId))
+    .where(eq(revisions.id, revisionId))
+    .limit(1);
   if (!r) throw notFound('Revision');
-  const plate = await assertPlateView(db, user, r.plateId).catch(() => {
-    throw notFound('Revision');
-  });
-  if (user.role === 'machinist' && r.status !== 'approved') throw notFound('Revision');
-  const [author] = await db.select({ id: users.id, name: users.name }).from(users).where(eq(users.id, r.authorId));
-  const history = await db
-    .select({ id: reviews.id, decision: reviews.decision, comment: reviews.comment, waivers: reviews.waivers, createdAt: reviews.createdAt, reviewerId: reviews.reviewerId, reviewerName: users.name, reviewerRole: users.role })
-    .from(reviews)
-    .innerJoin(users, eq(users.id, reviews.reviewerId))
-    .where(eq(reviews.revisionId, revisionId))
-    .orderBy(asc(reviews.createdAt), asc(reviews.id));
-  const files = await db
-    .select({ name: artifacts.kind, sha256: artifacts.sha256, bytes: artifacts.sizeBytes, contentType: artifacts.contentType, kernelVersion: artifacts.kernelVersion, createdAt: artifacts.createdAt })
-    .from(artifacts)
-    .where(eq(artifacts.revisionId, revisionId))
-    .orderBy(asc(artifacts.kind));
-  const parent = r.parentRevisionId ? await findRevision(db, r.parentRevisionId) : undefined;
+  const canView =
+    user.role === 'engineer' || user.role === 'admin'
+      ? true
+      : user.role === 'designer'
+        ? r.ownerId === user.id || r.memberId === user.id
+        : user.role === 'machinist'
+          ? r.status === 'approved'
+          : false;
+  if (!canView) throw notFound('Revision');
+  return r;
+}
+
+/** Cached content is shared by every answer: frozen so no caller can change it for the next one. */
+function deepFreeze<T>(v: T): T {
+  if (v && typeof v === 'object' && !Object.isFrozen(v)) {
+    Object.freeze(v);
+    for (const k of Object.keys(v)) deepFreeze((v as Record<string, unknown>)[k]);
+  }
+  return v;
+}
+
+async function revisionContent(db: Db, r: { id: number; specSha256: string; specSchemaVersion: number }): Promise<RevisionContent> {
+  const key = contentKey(r.id, r.specSha256, r.specSchemaVersion);
+  const hit = contentCache.get(key);
+  if (hit) return hit;
+  const [row] = await db.select({ spec: revisions.spec, checks: revisions.checks, specSha256: revisions.specSha256 }).from(revisions).where(eq(revisions.id, r.id)).limit(1);
+  if (!row) throw notFound('Revision');
+  const content: RevisionContent = deepFreeze({ spec: row.spec, checks: row.checks as Finding[], checkCounts: countFindings(row.checks) });
+  if (row.specSha256 === r.specSha256) contentCache.set(key, content);
+  return content;
+}
+
+/** Full revision for a viewer: spec, checks, state, history of reviews, files. */
+export async function getRevision(db: Db, user: SessionUser, revisionId: number) {
+  const r = await revisionForViewer(db, user, revisionId);
+  const [content, history, files] = await Promise.all([
+    revisionContent(db, r),
+    db
+      .select({ id: reviews.id, decision: reviews.decision, comment: reviews.comment, waivers: reviews.waivers, createdAt: reviews.createdAt, reviewerId: reviews.reviewerId, reviewerName: users.name, reviewerRole: users.role })
+      .from(reviews)
+      .innerJoin(users, eq(users.id, reviews.reviewerId))
+      .where(eq(reviews.revisionId, revisionId))
+      .orderBy(asc(reviews.createdAt), asc(reviews.id)),
+    db
+      .select({ name: artifacts.kind, sha256: artifacts.sha256, bytes: artifacts.sizeBytes, contentType: artifacts.contentType, kernelVersion: artifacts.kernelVersion, createdAt: artifacts.createdAt })
+      .from(artifacts)
+      .where(eq(artifacts.revisionId, revisionId))
+      .orderBy(asc(artifacts.kind)),
+  ]);
   const approval = [...history].reverse().find((h) => h.decision === 'approved');
   return {
     id: r.id,
     plateId: r.plateId,
-    partNumber: plate.partNumber,
-    plateTitle: plate.title,
-    projectId: plate.projectId,
+    partNumber: r.partNumber,
+    plateTitle: r.plateTitle,
+    projectId: r.projectId,
     number: r.number,
     status: r.status,
-    parentRevision: parent ? { id: parent.id, number: parent.number } : null,
-    spec: r.spec,
+    parentRevision: r.parentRevisionId && r.parentNumber != null ? { id: r.parentRevisionId, number: r.parentNumber } : null,
+    spec: content.spec,
     specSha256: r.specSha256,
     specSchemaVersion: r.specSchemaVersion,
-    checks: r.checks as Finding[],
-    checkCounts: countFindings(r.checks),
-    author: author ?? { id: r.authorId, name: '(unknown)' },
+    checks: content.checks,
+    checkCounts: { ...content.checkCounts },
+    author: { id: r.authorId, name: r.authorName ?? '(unknown)' },
     message: r.message,
     createdAt: r.createdAt.toISOString(),
     approvedBy: approval ? { id: approval.reviewerId, name: approval.reviewerName, at: approval.createdAt.toISOString() } : null,
@@ -355,8 +434,18 @@ export async function listReleases(db: Db, user: SessionUser) {
   });
 }
 
-/** A stored file of an approved revision, byte-identical to what was approved. */
+/** A stored file of an approved revision, byte-identical to what was approved (bytes from memory by sha256 when seen before). */
 export async function getStoredFile(db: Db, revisionId: number, name: string) {
-  const [a] = await db.select().from(artifacts).where(and(eq(artifacts.revisionId, revisionId), eq(artifacts.kind, name))).limit(1);
-  return a;
+  const [a] = await db
+    .select({ id: artifacts.id, kind: artifacts.kind, contentType: artifacts.contentType, sha256: artifacts.sha256, sizeBytes: artifacts.sizeBytes })
+    .from(artifacts)
+    .where(and(eq(artifacts.revisionId, revisionId), eq(artifacts.kind, name)))
+    .limit(1);
+  if (!a) return undefined;
+  const bytes = await artifactBytes(a.sha256, async () => {
+    const [row] = await db.select({ bytes: artifacts.bytes }).from(artifacts).where(eq(artifacts.id, a.id)).limit(1);
+    return row?.bytes;
+  });
+  if (!bytes) return undefined;
+  return { ...a, bytes };
 }

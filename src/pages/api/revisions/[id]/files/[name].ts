@@ -2,7 +2,7 @@ import type { APIRoute } from 'astro';
 import { requireRole } from '~/server/auth/guard';
 import { getDb } from '~/server/db/client';
 import { AppError, handle, idParam, notFound } from '~/server/errors';
-import { getRevision, getStoredFile, findRevision } from '~/server/repos/revisions';
+import { getStoredFile, findRevision, revisionForViewer } from '~/server/repos/revisions';
 import { isFileName } from '~/server/fileNames';
 import { contentDisposition, downloadFileName } from '~/server/files/index';
 import { renderOne } from '~/server/release';
@@ -20,7 +20,7 @@ export const GET: APIRoute = ({ locals, params }) =>
     const id = idParam(params.id, 'Revision');
     const name = params.name ?? '';
     if (!isFileName(name)) throw new AppError(404, 'not_found', `No file called ${name}; a revision has drawing.pdf, plate.dxf, plate.step, plate.svg and holes.csv.`);
-    const rev = await getRevision(getDb(), g.user, id); // access rules (machinists: released only)
+    const rev = await revisionForViewer(getDb(), g.user, id); // access rules, read fresh (machinists: released only)
     const stored = await getStoredFile(getDb(), id, name);
     let bytes: Uint8Array;
     let contentType: string;

@@ -38,10 +38,10 @@ const nav = (page: Page) => page.locator('nav[aria-label="Main"] a').allInnerTex
 
 describe('sign-in in Chromium', () => {
   const expected: Record<string, { nav: string[]; lands: string }> = {
-    designer: { nav: ['Projects'], lands: '/projects' },
-    engineer: { nav: ['Projects', 'Review', 'Shop'], lands: '/review' },
+    designer: { nav: ['Projects', 'Orders'], lands: '/projects' },
+    engineer: { nav: ['Projects', 'Orders', 'Review', 'Shop'], lands: '/review' },
     machinist: { nav: ['Shop'], lands: '/shop' },
-    admin: { nav: ['Projects', 'Review', 'Shop', 'Admin'], lands: '/admin/users' },
+    admin: { nav: ['Projects', 'Orders', 'Review', 'Shop', 'Admin'], lands: '/admin/users' },
   };
 
   for (const [role, want] of Object.entries(expected)) {
@@ -62,7 +62,7 @@ describe('sign-in in Chromium', () => {
       await submits(page, () => page.getByRole('button', { name: 'Sign out' }).click());
       expect(page.url()).toBe(`${base}/sign-in?signed_out=1`);
       await expect(page.getByTestId('notice').innerText()).resolves.toBe('You are signed out.');
-      expect(await nav(page)).toEqual(['Projects', 'Review', 'Shop', 'Admin']);
+      expect(await nav(page)).toEqual(['Projects', 'Orders', 'Review', 'Shop', 'Admin']);
       await context.close();
     });
   }
@@ -79,7 +79,7 @@ describe('sign-in in Chromium', () => {
     expect(await page.getByLabel('E-mail').inputValue()).toBe('designer@example.test');
     expect(await page.getByLabel('Password').inputValue()).toBe('');
     expect(await page.evaluate(() => document.activeElement?.getAttribute('name'))).toBe('password');
-    expect(await nav(page)).toEqual(['Projects', 'Review', 'Shop', 'Admin']); // still anonymous
+    expect(await nav(page)).toEqual(['Projects', 'Orders', 'Review', 'Shop', 'Admin']); // still anonymous
     await page.screenshot({ path: `${SHOTS}/sign-in-error.png`, fullPage: true });
     await page.close();
   });

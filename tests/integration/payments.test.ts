@@ -252,8 +252,22 @@ describe('orders and payment', () => {
     expect(failed.status).toBe(409);
     expect(failed.body.error.code).toBe('inspection_failed');
     expect((await orderRow(orderId)).state).toBe('in_production');
-    await getDb().insert(inspections).values(inspection('passed'));
+    const [passed] = await getDb().insert(inspections).values(inspection('passed')).$returningId();
     expect((await c.machinist.patch(`/api/orders/${orderId}`, { state: 'inspected' })).status).toBe(200);
+    expect((await orderRow(orderId)).inspectionId).toBe(passed.id);
+
+    // a second order of the same revision is another part: the inspection already used does not count again
+    const second = await quoteAndAccept();
+    const o2 = await orderRow(second.orderId);
+    await postEvent(completedEvent(`evt_test_second_${second.orderId}`, { id: o2.checkoutSessionId, amount: o2.amountMinor, currency: o2.currency }));
+    expect((await c.machinist.patch(`/api/orders/${second.orderId}`, { state: 'in_production' })).status).toBe(200);
+    const reused = await c.machinist.patch(`/api/orders/${second.orderId}`, { state: 'inspected' });
+    expect(reused.status).toBe(409);
+    expect(reused.body.error.code).toBe('not_inspected');
+    expect((await orderRow(second.orderId)).state).toBe('in_production');
+    const [own] = await getDb().insert(inspections).values(inspection('passed')).$returningId();
+    expect((await c.machinist.patch(`/api/orders/${second.orderId}`, { state: 'inspected' })).status).toBe(200);
+    expect((await orderRow(second.orderId)).inspectionId).toBe(own.id);
     const shipped = await c.engineer.patch(`/api/orders/${orderId}`, { state: 'shipped', note: 'Parcel 4411-TEST, invented carrier' });
     expect(shipped.status).toBe(200);
     expect(shipped.body.order.state).toBe('shipped');

@@ -12,6 +12,7 @@ import {
   uniqueIndex,
   varchar,
 } from 'drizzle-orm/mysql-core';
+import type { AnyMySqlColumn } from 'drizzle-orm/mysql-core';
 import { sql } from 'drizzle-orm';
 import { jsonDoc, longblob } from './columns';
 
@@ -335,6 +336,8 @@ export const orders = mysqlTable(
     paidAt: datetime('paid_at', { mode: 'date', fsp: 3 }),
     shippedAt: datetime('shipped_at', { mode: 'date', fsp: 3 }),
     trackingNote: varchar('tracking_note', { length: 500 }),
+    /** the inspection that let the order become `inspected`; one inspection serves one order */
+    inspectionId: idRef('inspection_id').references((): AnyMySqlColumn => inspections.id),
     createdAt: createdAt(),
     updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
   },
@@ -343,6 +346,7 @@ export const orders = mysqlTable(
     uniqueIndex('orders_checkout_session_uq').on(t.checkoutSessionId),
     index('orders_customer_idx').on(t.customerId),
     index('orders_state_idx').on(t.state),
+    uniqueIndex('orders_inspection_uq').on(t.inspectionId),
   ],
 );
 

@@ -2,11 +2,13 @@
  * The gate on an order's `inspected` state: a part of the order's revision must have passed
  * inspection (or been accepted with a deviation by an engineer) after the order was paid, i.e.
  * inspected for this order and against this approved revision. A newer failed inspection with
- * nothing passed after it blocks the step.
+ * nothing passed after it blocks the step. One inspection serves one order: an inspection that
+ * already let another order become `inspected` does not count again (two orders of the same
+ * revision are two parts, each inspected).
  */
-import { and, desc, eq } from 'drizzle-orm';
+import { and, desc, eq, isNull, or } from 'drizzle-orm';
 import type { Db, Tx } from '../db/client';
-import { inspections } from '../db/schema';
+import { inspections, orders } from '../db/schema';
 
 export type InspectionResult = { status: 'passed' | 'accepted' | 'failed' | 'none'; detail: string; inspectionId?: number };
 
@@ -14,7 +16,8 @@ export async function inspectionResultForOrder(db: Db | Tx, order: { id: number;
   const rows = await db
     .select({ id: inspections.id, state: inspections.state, completedAt: inspections.completedAt, acceptedAt: inspections.acceptedAt })
     .from(inspections)
-    .where(and(eq(inspections.revisionId, order.revisionId)))
+    .leftJoin(orders, eq(orders.inspectionId, inspections.id))
+    .where(and(eq(inspections.revisionId, order.revisionId), or(isNull(orders.id), eq(orders.id, order.id))))
     .orderBy(desc(inspections.id))
     .limit(200);
   const since = order.paidAt?.getTime() ?? 0;
@@ -23,5 +26,5 @@ export async function inspectionResultForOrder(db: Db | Tx, order: { id: number;
   if (ok) return { status: ok.state === 'passed' ? 'passed' : 'accepted', detail: `inspection ${ok.id} ${ok.state === 'passed' ? 'passed' : 'accepted with deviation'}`, inspectionId: ok.id };
   const failed = finished.find((r) => r.state === 'failed');
   if (failed) return { status: 'failed', detail: `inspection ${failed.id} failed`, inspectionId: failed.id };
-  return { status: 'none', detail: 'no finished inspection of this revision since the order was paid' };
+  return { status: 'none', detail: 'no finished inspection of this revision since the order was paid that another order has not used' };
 }

@@ -354,6 +354,17 @@ export async function orderById(db: Db | Tx, orderId: number): Promise<OrderView
 /** The shop moves a paid order along: paid → in production → inspected → shipped, one step at a time. */
 export async function advanceOrder(db: Db, user: SessionUser, orderId: number, input: { state: OrderState; note?: string }): Promise<OrderView> {
   if (!['machinist', 'engineer', 'admin'].includes(user.role)) throw forbidden('Only the shop (machinist, engineer or admin) moves an order along.');
+  try {
+    await advanceInTransaction(db, user, orderId, input);
+  } catch (e) {
+    // another order took the same inspection at the same moment (unique inspection per order)
+    if (isDuplicate(e)) throw new AppError(409, 'inspection_used', `That inspection has just been used for another order; inspect this order's part (Shop → Inspections) and try again.`);
+    throw e;
+  }
+  return getOrder(db, user, orderId);
+}
+
+async function advanceInTransaction(db: Db, user: SessionUser, orderId: number, input: { state: OrderState; note?: string }): Promise<void> {
   await db.transaction(async (tx) => {
     const [o] = await tx.select().from(orders).where(eq(orders.id, orderId)).for('update');
     if (!o) throw notFound('Order');
@@ -368,10 +379,11 @@ export async function advanceOrder(db: Db, user: SessionUser, orderId: number, i
     if (input.state === 'inspected') {
       const result = await inspectionResultForOrder(tx, o);
       if (result.status === 'failed') throw new AppError(409, 'inspection_failed', `The part of order ${ref} failed inspection (${result.detail}); record a passed inspection, or have an engineer accept the deviation, before marking it inspected.`, { inspectionId: result.inspectionId });
-      if (result.status === 'none') throw new AppError(409, 'not_inspected', `Order ${ref} has no passed or accepted inspection since it was paid; inspect the part against the approved revision first (Shop → Inspections).`);
+      if (result.status === 'none') throw new AppError(409, 'not_inspected', `Order ${ref} has no passed or accepted inspection since it was paid (each inspection serves one order); inspect this order's part against the approved revision first (Shop → Inspections).`);
       details.inspection = result;
     }
     const set: Partial<typeof orders.$inferInsert> = { state: input.state, updatedAt: new Date() };
+    if (input.state === 'inspected') set.inspectionId = (details.inspection as { inspectionId?: number }).inspectionId ?? null;
     if (input.state === 'shipped') {
       set.shippedAt = new Date();
       if (input.note?.trim()) set.trackingNote = input.note.trim().slice(0, 500);
@@ -380,7 +392,6 @@ export async function advanceOrder(db: Db, user: SessionUser, orderId: number, i
     if (input.note) details.note = input.note;
     await audit(tx, user.id, `order.${input.state}`, { type: 'order', id: orderId }, details);
   });
-  return getOrder(db, user, orderId);
 }
 
 // ── Payment events ────────────────────────────────────────────────────────────────────────────

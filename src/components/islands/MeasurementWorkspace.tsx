@@ -481,7 +481,7 @@ function Workspace({ projectId, canEdit, plates, blankSpec }: Props) {
                   {apply.error && <p role="alert" className="whitespace-pre-line text-finding-error">{(apply.error as Error).message}</p>}
                   {applied && (
                     <p role="status" className="rounded border border-plate-300 bg-plate-100 p-2">
-                      Saved as draft revision {applied.number} of the plate. <a className="font-semibold text-plate-700 underline" href={`/plates/${applied.plateId}`}>Open the plate</a>
+                      Saved as draft revision {applied.number} of the plate. <a className="font-semibold text-plate-700 underline" href={`/plates/${applied.plateId}/edit?rev=${applied.id}`}>Open it in the editor</a> · <a className="font-semibold text-plate-700 underline" href={`/plates/${applied.plateId}`}>the plate's revisions</a>
                     </p>
                   )}
                 </div>

@@ -1,9 +1,28 @@
-/** The local-folder store: `<dir>/<key>`, written to `<dir>/.incoming/` first and renamed on commit. */
+/**
+ * The local-folder store: `<dir>/<key>`, written to `<dir>/.incoming/` first and renamed on commit.
+ * A pending file is named `<host>-<pid>-<random>.part`, so housekeeping can tell the parts of a
+ * process that is gone (killed mid-upload) from those of a live one sharing the folder.
+ */
 import { createReadStream, createWriteStream, type WriteStream } from 'node:fs';
 import { mkdir, readdir, rename, rm, stat } from 'node:fs/promises';
 import { randomBytes } from 'node:crypto';
+import { hostname } from 'node:os';
 import { dirname, join, relative, resolve } from 'node:path';
 import { BlobNotFound, checkKey, type BlobStore, type PendingBlob } from './types';
+
+const HOST = hostname().replace(/[^A-Za-z0-9]/g, '').slice(0, 40) || 'host';
+const PART_RE = /^([A-Za-z0-9]+)-(\d+)-[0-9a-f]+\.part$/;
+/** parts untouched this long are stale whoever wrote them */
+const DEFAULT_STALE_MS = 24 * 3600_000;
+
+function processAlive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (e) {
+    return (e as NodeJS.ErrnoException).code === 'EPERM';
+  }
+}
 
 export function localFolderStore(folder: string): BlobStore & { dir: string } {
   const root = resolve(folder);
@@ -14,7 +33,7 @@ export function localFolderStore(folder: string): BlobStore & { dir: string } {
     dir: folder,
     async begin(): Promise<PendingBlob> {
       await mkdir(incoming, { recursive: true });
-      const temp = join(incoming, `${randomBytes(12).toString('hex')}.part`);
+      const temp = join(incoming, `${HOST}-${process.pid}-${randomBytes(12).toString('hex')}.part`);
       const out: WriteStream = createWriteStream(temp, { flags: 'wx' });
       let failed: Error | null = null;
       out.on('error', (e) => (failed = e));
@@ -68,6 +87,41 @@ export function localFolderStore(folder: string): BlobStore & { dir: string } {
     },
     async remove(key) {
       await rm(pathOf(key), { force: true });
+    },
+    async modifiedAt(key) {
+      try {
+        return (await stat(pathOf(key))).mtime;
+      } catch {
+        return null;
+      }
+    },
+    async removeStalePending(opts = {}) {
+      const olderThanMs = opts.olderThanMs ?? DEFAULT_STALE_MS;
+      let names: string[];
+      try {
+        names = await readdir(incoming);
+      } catch {
+        return [];
+      }
+      const removed: string[] = [];
+      for (const name of names) {
+        const path = join(incoming, name);
+        const m = PART_RE.exec(name);
+        let stale = false;
+        if (m && m[1] === HOST && Number(m[2]) !== process.pid && !processAlive(Number(m[2]))) stale = true;
+        else {
+          try {
+            stale = Date.now() - (await stat(path)).mtimeMs > olderThanMs;
+          } catch {
+            continue; // finished or removed meanwhile
+          }
+        }
+        if (stale) {
+          await rm(path, { force: true, recursive: true });
+          removed.push(name);
+        }
+      }
+      return removed;
     },
     async list() {
       const out: string[] = [];

@@ -21,6 +21,15 @@ export interface BlobStore {
   remove(key: string): Promise<void>;
   /** every committed key (for tests and housekeeping) */
   list(): Promise<string[]>;
+  /** when the blob was last written, null if absent (housekeeping: orphans get a grace period) */
+  modifiedAt(key: string): Promise<Date | null>;
+  /**
+   * Forgets pending uploads nobody will finish: those of a process that is gone (killed in the
+   * middle of an upload) and any untouched for longer than `olderThanMs`. Pending uploads of a
+   * live process — this one or another instance sharing the store — are kept.
+   * Returns what it removed.
+   */
+  removeStalePending(opts?: { olderThanMs?: number }): Promise<string[]>;
 }
 
 export class BlobNotFound extends Error {

@@ -10,7 +10,9 @@
  *   revision  GET  /api/revisions/:id                  (designer, the released demo revision)
  *   dxf       GET  /api/revisions/:id/files/plate.dxf  (machinist, the released DXF)
  * Each scenario: 1 s warm-up, then at most DURATION_S seconds or MAX_REQUESTS requests.
- * Prints throughput, p50/p99 latency and errors; the last line is one JSON object.
+ * Prints throughput, p50/p99 latency, errors and SQL statements per request (MariaDB's own
+ * `Questions` counter before and after the scenario, divided by the requests); the last line is
+ * one JSON object.
  */
 import autocannon from 'autocannon';
 import { spawnSync } from 'node:child_process';
@@ -51,6 +53,8 @@ function sh(cmd: string) {
 interface Figures {
   name: string;
   requests: number;
+  /** SQL statements the server sent per request in this scenario (MariaDB `Questions`) */
+  queriesPerRequest: number;
   throughputPerS: number;
   p50Ms: number;
   p99Ms: number;
@@ -58,19 +62,28 @@ interface Figures {
   non2xx: number;
 }
 
+/** MariaDB's count of statements received (the two reads of it add one each). */
+function questions(): number {
+  const out = sh(`mariadb --no-defaults --socket="${env.DB_DIR}/mysqld.sock" -uroot -N -B -e "SHOW GLOBAL STATUS LIKE 'Questions'"`);
+  return Number(out.trim().split(/\s+/)[1]);
+}
+
 async function run(name: string, opts: autocannon.Options & { warm?: boolean }): Promise<Figures> {
   if (opts.warm !== false) await autocannon({ ...opts, connections: CONNECTIONS, duration: 1 });
+  const q0 = questions();
   const r = await autocannon({ connections: CONNECTIONS, duration: DURATION_S, ...opts });
+  const q1 = questions();
   const f: Figures = {
     name,
     requests: r.requests.total,
+    queriesPerRequest: +((q1 - q0 - 1) / Math.max(1, r.requests.total)).toFixed(2),
     throughputPerS: Math.round(r.requests.average),
     p50Ms: r.latency.p50,
     p99Ms: r.latency.p99,
     errors: r.errors + r.timeouts,
     non2xx: r.non2xx,
   };
-  console.log(`${name.padEnd(9)} ${String(f.throughputPerS).padStart(6)} req/s  p50 ${String(f.p50Ms).padStart(4)} ms  p99 ${String(f.p99Ms).padStart(4)} ms  errors ${f.errors}  non-2xx ${f.non2xx}  (${f.requests} requests)`);
+  console.log(`${name.padEnd(9)} ${String(f.throughputPerS).padStart(6)} req/s  p50 ${String(f.p50Ms).padStart(4)} ms  p99 ${String(f.p99Ms).padStart(4)} ms  errors ${f.errors}  non-2xx ${f.non2xx}  SQL/request ${f.queriesPerRequest}  (${f.requests} requests)`);
   return f;
 }
 

@@ -2,6 +2,7 @@ import { defineMiddleware, sequence } from 'astro:middleware';
 import { authConfig, ConfigError } from './server/config';
 import { identify } from './server/auth/session';
 import { withSecurityHeaders } from './server/securityHeaders';
+import { cleanUploadStoreOnce } from './server/measure/housekeeping';
 
 // Works out WHO is asking (locals.user / locals.session) and nothing else: every page and endpoint
 // enforces its own rule with requireRole / requirePageRole (src/server/auth/guard.ts).
@@ -14,6 +15,7 @@ const settings = defineMiddleware((_ctx, next) => {
     try {
       authConfig();
       configChecked = true;
+      void cleanUploadStoreOnce(); // what a killed process left in the upload store (runs in the background)
     } catch (err) {
       if (err instanceof ConfigError) {
         console.error(`[platewright] ${err.message}`);
@@ -45,13 +47,16 @@ const who = defineMiddleware(async (ctx, next) => {
 /**
  * Cross-site requests that change state are refused whatever their content type. Astro's own
  * origin check covers form posts; this also covers JSON and other bodies. Requests without an
- * Origin header (server-to-server, such as the payment webhook) are left to their endpoint.
+ * Origin header are refused when the browser marks them Sec-Fetch-Site: cross-site; others
+ * (server-to-server, such as the payment webhook) are left to their endpoint.
  */
 const sameOrigin = defineMiddleware((ctx, next) => {
   const method = ctx.request.method;
   if (method === 'GET' || method === 'HEAD' || method === 'OPTIONS') return next();
   const origin = ctx.request.headers.get('origin');
-  if (origin && origin !== ctx.url.origin) {
+  // A browser that leaves out Origin still says where the request comes from in Sec-Fetch-Site.
+  const crossSite = origin ? origin !== ctx.url.origin : ctx.request.headers.get('sec-fetch-site') === 'cross-site';
+  if (crossSite) {
     return new Response(JSON.stringify({ error: { code: 'cross_site', message: 'Cross-site requests that change data are refused.' } }), {
       status: 403,
       headers: { 'content-type': 'application/json; charset=utf-8' },

@@ -17,6 +17,11 @@ export class AppError extends Error {
 export const notFound = (what: string) => new AppError(404, 'not_found', `${what} not found.`);
 export const forbidden = (message: string) => new AppError(403, 'forbidden', message);
 
+/** The message for a field the endpoint does not know (a typo, or a field of another endpoint). */
+export function unknownFieldMessage(key: string): string {
+  return `unknown field "${key.length > 60 ? key.slice(0, 60) + '…' : key}": this request does not take it; remove it or check its spelling`;
+}
+
 /** MariaDB went away (stopped, restarting, pool exhausted): the request fails cleanly with 503. */
 function isDatabaseDown(e: unknown): boolean {
   const code = (e as { code?: string })?.code ?? (e as { cause?: { code?: string } })?.cause?.code;
@@ -31,8 +36,21 @@ export async function handle(fn: () => Promise<Response>): Promise<Response> {
     if (e instanceof AppError) return json({ error: { code: e.code, message: e.message, ...e.extra } }, e.status);
     if (e instanceof z.ZodError) {
       const fields: Record<string, string> = {};
-      for (const issue of e.issues) fields[issue.path.join('.') || '(body)'] = issue.message;
-      return jsonError(400, 'invalid_input', 'The request is not valid: ' + Object.entries(fields).map(([k, v]) => `${k}: ${v}`).join('; '), fields);
+      const parts: string[] = [];
+      for (const issue of e.issues) {
+        if (issue.code === 'unrecognized_keys') {
+          for (const k of issue.keys) {
+            const where = [...issue.path, k].map(String).join('.');
+            fields[where] = unknownFieldMessage(where);
+            parts.unshift(fields[where]); // named first: the list below may be cut short
+          }
+        } else {
+          const where = issue.path.join('.') || '(body)';
+          fields[where] = issue.message;
+          parts.push(`${where}: ${issue.message}`);
+        }
+      }
+      return jsonError(400, 'invalid_input', 'The request is not valid: ' + parts.slice(0, 10).join('; '), fields);
     }
     if (isDatabaseDown(e)) return jsonError(503, 'database_unavailable', 'The database is not reachable right now; nothing was changed. Try again in a moment.');
     console.error('[platewright] unexpected error:', e instanceof Error ? e.message : String(e));

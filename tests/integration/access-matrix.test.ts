@@ -288,7 +288,7 @@ describe('cross-site requests', () => {
   const stateChanging = routes.filter((r) => !r.startsWith('GET '));
   const evil = 'http://evil.example.test';
 
-  it.each(['application/x-www-form-urlencoded', 'multipart/form-data; boundary=x', 'text/plain'])('a cross-site %s post is refused with 403 on every state-changing route', async (type) => {
+  it.each(['application/x-www-form-urlencoded', 'multipart/form-data; boundary=x', 'text/plain', 'application/json', 'no Origin, Sec-Fetch-Site: cross-site'])('a cross-site %s post is refused with 403 on every state-changing route', async (type) => {
     const problems: string[] = [];
     const body = type.startsWith('multipart') ? '--x\r\nContent-Disposition: form-data; name="a"\r\n\r\n1\r\n--x--\r\n' : 'a=1';
     for (const route of stateChanging) {
@@ -297,8 +297,10 @@ describe('cross-site requests', () => {
       const path = req.path.replace(/:token/, 'no-such-token').replace(/:name/, 'plate.dxf').replace(/:a\/compare\/:b/, `${fx.approvedRevisionId}/compare/${fx.draftRevisionId}`).replace(/\/:id/, `/${fx.targetUserId}`);
       const r = await fetch(server.baseUrl + path, {
         method,
-        headers: { origin: evil, 'content-type': type, cookie: `platewright_session=${clients.member.sessionCookie}` },
-        body,
+        headers: type.startsWith('no Origin')
+          ? { 'sec-fetch-site': 'cross-site', 'content-type': 'application/json', cookie: `platewright_session=${clients.member.sessionCookie}` }
+          : { origin: evil, 'content-type': type, cookie: `platewright_session=${clients.member.sessionCookie}` },
+        body: type.includes('json') || type.startsWith('no Origin') ? '{}' : body,
         redirect: 'manual',
       });
       const text = await r.text();

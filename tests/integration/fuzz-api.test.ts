@@ -20,7 +20,8 @@ const demo = JSON.parse(readFileSync(new URL('../../templates/plates/demo.json',
 const STACK = /\bat (?:async )?[\w.$<>\[\] ]*\(?(?:file:\/\/)?\/[^\s)]*:\d+:\d+\)?|"stack"\s*:|node_modules\/|\/(?:src|dist)\/[\w/.-]+\.(?:ts|js|mjs):\d+/;
 
 let server: RunningServer;
-const c = {} as Record<'member' | 'engineer' | 'admin' | 'anonymous', ApiClient>;
+const c = {} as Record<'member' | 'engineer' | 'admin' | 'machinist' | 'anonymous', ApiClient>;
+const emails = {} as Record<'member' | 'engineer' | 'admin' | 'machinist', string>;
 let ids: { project: number; plate: number; approved: number; draft: number; inReview: number; upload: number; user: string };
 
 function check(route: string, r: { status: number; body: unknown }, sent: string) {
@@ -72,10 +73,11 @@ const bodyText = fc.oneof(
 beforeAll(async () => {
   server = await startServer(testAppPort(29));
   const db = getDb();
-  const u = { member: await makeUser(db, 'designer', 'fuzzer'), engineer: await makeUser(db, 'engineer'), admin: await makeUser(db, 'admin') };
+  const u = { member: await makeUser(db, 'designer', 'fuzzer'), engineer: await makeUser(db, 'engineer'), admin: await makeUser(db, 'admin'), machinist: await makeUser(db, 'machinist') };
   const target = await makeUser(db, 'designer', 'fuzztarget');
   c.anonymous = new ApiClient(server.baseUrl);
-  for (const k of ['member', 'engineer', 'admin'] as const) {
+  for (const k of ['member', 'engineer', 'admin', 'machinist'] as const) {
+    emails[k] = u[k].email;
     c[k] = new ApiClient(server.baseUrl);
     expect((await c[k].signIn(u[k].email, TEST_PASSWORD)).status).toBe(200);
   }
@@ -114,6 +116,85 @@ describe('API fuzz', () => {
         { numRuns: runs },
       );
     }
+  });
+
+  /**
+   * A valid body for every JSON endpoint, so that an extra field is the only thing wrong with it.
+   * Generated from the route list: an endpoint without a row here fails the test (a new endpoint
+   * needs its row). Not JSON: sign-out takes no body, uploads are multipart, the payment webhook's
+   * events come signed from the payment service with fields of its own.
+   */
+  const NOT_JSON = new Set(['POST /api/auth/sign-out', 'POST /sign-out', 'POST /api/projects/:id/uploads', 'POST /api/payments/webhook']);
+  async function validBody(route: string): Promise<Record<string, unknown> | undefined> {
+    const bodies: Record<string, () => Promise<Record<string, unknown>> | Record<string, unknown>> = {
+      'PATCH /api/account': () => ({ name: 'Fuzz member' }),
+      'PATCH /api/admin/shop-settings': async () => (await c.admin.get('/api/admin/shop-settings')).body.rates,
+      'PATCH /api/admin/users/:id': () => ({ active: true }),
+      'PATCH /api/orders/:id': () => ({ state: 'shipped' }),
+      'PATCH /api/projects/:id': () => ({ name: 'Fuzz swap' }),
+      'POST /api/account/password': () => ({ currentPassword: TEST_PASSWORD, newPassword: `${TEST_PASSWORD} changed` }),
+      'POST /api/admin/invites': () => ({ email: 'strict-invite@example.test', role: 'designer' }),
+      'POST /api/auth/password-reset': () => ({ email: 'nobody-here@example.test' }),
+      'POST /api/auth/password-reset/:token': () => ({ password: 'a long enough new password' }),
+      'POST /api/auth/sign-in': () => ({ email: emails.member, password: TEST_PASSWORD }),
+      'POST /api/inspections/:id/accept': () => ({ comment: 'within the limits on the drawing' }),
+      'POST /api/invites/:token': () => ({ name: 'Invited Person', password: 'a long enough new password' }),
+      'POST /api/plates/:id/preview/drawing.pdf': () => ({ spec: demo }),
+      'POST /api/plates/:id/revisions': () => ({ spec: demo, message: 'strict', parentRevisionId: ids.draft, asBranch: true }),
+      'POST /api/projects': () => ({ name: 'Strict swap', swapDescription: '' }),
+      'POST /api/projects/:id/members': () => ({ email: 'someone-else@example.test' }),
+      'POST /api/projects/:id/plates': () => ({ title: 'Strict plate' }),
+      'POST /api/quotes/:id/accept': () => ({}),
+      'POST /api/revisions/:id/approve': () => ({ comment: 'ok' }),
+      'POST /api/revisions/:id/inspections': () => ({}),
+      'POST /api/revisions/:id/quotes': () => ({ quantity: 1 }),
+      'POST /api/revisions/:id/request-changes': () => ({ comment: 'please change the bolt circle' }),
+      'POST /api/revisions/:id/submit': () => ({}),
+      'POST /api/uploads/:id/fit': () => ({ kind: 'plane' }),
+      'PUT /api/inspections/:id/measurements': () => ({ rows: [] }),
+    };
+    const make = bodies[route];
+    return make ? await make() : undefined;
+  }
+
+  it('an unknown field is refused with 400 naming it, on every JSON endpoint (nothing is changed)', async () => {
+    const list = targets().filter((t) => !NOT_JSON.has(t.route));
+    expect(list.length).toBeGreaterThan(20);
+    const missing: string[] = [];
+    const accepted: string[] = [];
+    for (const t of list) {
+      const body = await validBody(t.route);
+      if (!body) {
+        missing.push(t.route);
+        continue;
+      }
+      const who = /\/measurements$|^POST \/api\/revisions\/:id\/inspections$/.test(t.route) ? 'machinist' : /\/inspections\/:id\/accept$/.test(t.route) ? 'engineer' : t.who;
+      // anonymous routes get a fresh client each, so a wrongly accepted sign-in changes nothing for the other rows
+      const client = who === 'anonymous' ? new ApiClient(server.baseUrl) : c[who];
+      for (const extra of [{ sneakyExtraField: 1 }, { sneakyExtraField: { nested: true } }]) {
+        const sent = { ...body, ...extra };
+        const r = await client.request(t.method, t.path, JSON.stringify(sent), { 'content-type': 'application/json' });
+        check(t.route, r, JSON.stringify(sent));
+        const e = (r.body as { error?: { message?: string; fields?: Record<string, string> } }).error;
+        if (r.status !== 400 || !e?.message?.includes('"sneakyExtraField"') || !e.fields?.sneakyExtraField) accepted.push(`${t.route} → ${r.status} ${JSON.stringify(r.body).slice(0, 200)}`);
+      }
+    }
+    expect(missing, 'JSON endpoints without a valid body in the table').toEqual([]);
+    expect(accepted, `endpoints that did not refuse an unknown field with 400 naming it:\n${accepted.join('\n')}`).toEqual([]);
+    // nothing was changed by the refused requests: the member can still sign in with the old password
+    expect((await new ApiClient(server.baseUrl).signIn(emails.member, TEST_PASSWORD)).status).toBe(200);
+  });
+
+  it('an unknown field inside a nested object is named with its path', async () => {
+    // a revision of its own in review (the random bodies above may have approved the shared one)
+    const plate = (await c.member.post(`/api/projects/${ids.project}/plates`, { title: 'Nested field plate' })).body.plate.id;
+    const inReview = (await c.member.post(`/api/plates/${plate}/revisions`, { spec: demo, message: 'nested', parentRevisionId: null })).body.revision.id;
+    expect((await c.member.post(`/api/revisions/${inReview}/submit`, {})).status).toBe(200);
+    const r = await c.engineer.post(`/api/revisions/${inReview}/approve`, { comment: 'ok', waivers: [{ code: 'x', featureIds: [], reason: 'fine as drawn here', sneaky: 1 }] });
+    expect(r.status).toBe(400);
+    expect(r.body.error.fields['waivers.0.sneaky']).toMatch(/unknown field "waivers\.0\.sneaky"/);
+    const rev = await c.member.get(`/api/revisions/${inReview}`);
+    expect(rev.body.revision.status).toBe('in_review'); // not approved by the refused request
   });
 
   it('a body larger than the cap answers 413 (or 400), not 5xx', async () => {

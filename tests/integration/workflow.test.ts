@@ -12,7 +12,7 @@ import {
   approveRevision,
   compareRevisions,
   getRevision,
-  getStoredFile,
+  storedFileForViewer,
   listReleases,
   requestChanges,
   reviewQueue,
@@ -283,8 +283,9 @@ describe('machinists and released files', () => {
     await expectAppError(getRevision(db(), machinist, r2.id), 404);
     const rel = (await listReleases(db(), machinist)).find((x) => x.partNumber === partNumber)!;
     expect(rel.revision).toBe(1);
-    const f = await getStoredFile(db(), r1.id, rel.files[0].name);
-    expect(sha(f.bytes)).toBe(rel.files[0].sha256);
+    const { file: f } = await storedFileForViewer(db(), machinist, r1.id, rel.files[0].name);
+    expect(sha(f!.bytes)).toBe(rel.files[0].sha256);
+    await expectAppError(storedFileForViewer(db(), machinist, r2.id, rel.files[0].name), 404); // not for a draft
   });
 });
 

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { ROLES } from '../db/schema';
 import { AuthError } from './errors';
+import { unknownFieldMessage } from '../errors';
 
 export const PASSWORD_MIN = 10;
 export const PASSWORD_MAX = 200;
@@ -26,37 +27,41 @@ export const nameSchema = z
 
 export const roleSchema = z.enum(ROLES, { error: `Choose a role: ${ROLES.join(', ')}.` });
 
-export const signInSchema = z.object({
+export const signInSchema = z.strictObject({
   email: emailSchema,
   password: z.string({ error: 'Enter your password.' }).min(1, 'Enter your password.').max(1000, 'That password is too long.'),
 });
 
 export const userPatchSchema = z
-  .object({
+  .strictObject({
     role: roleSchema.optional(),
     active: z.boolean({ error: 'active must be true or false.' }).optional(),
   })
   .refine((p) => p.role !== undefined || p.active !== undefined, { error: 'Nothing to change: send role and/or active.' });
 
-export const inviteSchema = z.object({ email: emailSchema, role: roleSchema });
+export const inviteSchema = z.strictObject({ email: emailSchema, role: roleSchema });
 
-export const acceptInviteSchema = z.object({ name: nameSchema, password: newPasswordSchema });
+export const acceptInviteSchema = z.strictObject({ name: nameSchema, password: newPasswordSchema });
 
-export const resetRequestSchema = z.object({ email: emailSchema });
+export const resetRequestSchema = z.strictObject({ email: emailSchema });
 
-export const resetSchema = z.object({ password: newPasswordSchema });
+export const resetSchema = z.strictObject({ password: newPasswordSchema });
 
-export const accountSchema = z.object({ name: nameSchema });
+export const accountSchema = z.strictObject({ name: nameSchema });
 
-export const passwordChangeSchema = z.object({
+export const passwordChangeSchema = z.strictObject({
   currentPassword: z.string({ error: 'Enter your current password.' }).min(1, 'Enter your current password.').max(1000),
   newPassword: newPasswordSchema,
 });
 
-/** Zod issues as `{ field: message }` (the first message per field; "form" for the whole body). */
+/** Zod issues as `{ field: message }` (the first message per field; "form" for the whole body; unknown fields by their own name). */
 export function fieldErrors(error: z.ZodError): Record<string, string> {
   const fields: Record<string, string> = {};
   for (const issue of error.issues) {
+    if (issue.code === 'unrecognized_keys') {
+      for (const k of issue.keys) fields[[...issue.path, k].map(String).join('.')] ??= unknownFieldMessage(k);
+      continue;
+    }
     const key = issue.path.length ? String(issue.path[0]) : 'form';
     fields[key] ??= issue.message;
   }
@@ -68,8 +73,11 @@ export function parseWith<T extends z.ZodType>(schema: T, input: unknown): z.inf
   const r = schema.safeParse(input);
   if (r.success) return r.data;
   const fields = fieldErrors(r.error);
-  const first = Object.values(fields)[0] ?? 'Check the highlighted fields.';
-  throw new AuthError(400, 'invalid_input', Object.keys(fields).length > 1 ? 'Check the highlighted fields.' : first, fields);
+  const messages = Object.values(fields);
+  const first = messages[0] ?? 'Check the highlighted fields.';
+  const unknown = messages.filter((m) => m.startsWith('unknown field '));
+  const message = messages.length <= 1 ? first : unknown.length ? `Check the highlighted fields; ${unknown.join('; ')}.` : 'Check the highlighted fields.';
+  throw new AuthError(400, 'invalid_input', message, fields);
 }
 
 /** The JSON body of a request, parsed with a schema; a body that is not JSON is a 400, not a crash. */

@@ -52,34 +52,40 @@ export async function listProjects(db: Db, user: SessionUser, opts: { q?: string
     conditions.push(or(eq(projects.ownerId, user.id), inArray(projects.id, memberOf)));
   }
   if (opts.q) conditions.push(or(like(projects.name, `%${opts.q}%`), like(projects.swapDescription, `%${opts.q}%`)));
+  // one query: each project with each of its plates and that plate's latest revision (highest number)
+  const latestNumber = sql`(SELECT MAX(${sql.raw('lr.number')}) FROM ${revisions} AS ${sql.raw('lr')} WHERE ${sql.raw('lr.plate_id')} = ${plates.id})`;
   const rows = await db
-    .select({ id: projects.id, name: projects.name, swapDescription: projects.swapDescription, ownerId: projects.ownerId, ownerName: users.name, updatedAt: projects.updatedAt })
+    .select({
+      id: projects.id,
+      name: projects.name,
+      swapDescription: projects.swapDescription,
+      ownerId: projects.ownerId,
+      ownerName: users.name,
+      updatedAt: projects.updatedAt,
+      plateId: plates.id,
+      status: revisions.status,
+    })
     .from(projects)
     .innerJoin(users, eq(users.id, projects.ownerId))
+    .leftJoin(plates, eq(plates.projectId, projects.id))
+    .leftJoin(revisions, and(eq(revisions.plateId, plates.id), eq(revisions.number, latestNumber)))
     .where(conditions.length ? and(...conditions) : undefined)
     .orderBy(desc(projects.updatedAt), asc(projects.id));
-  if (rows.length === 0) return [];
-  const ids = rows.map((r) => r.id);
-  // latest revision status per plate
-  const latest = await db
-    .select({ projectId: plates.projectId, plateId: plates.id, status: revisions.status, number: revisions.number })
-    .from(plates)
-    .leftJoin(revisions, eq(revisions.plateId, plates.id))
-    .where(inArray(plates.projectId, ids));
-  const perPlate = new Map<number, { projectId: number; status: string | null; number: number }>();
-  for (const l of latest) {
-    const cur = perPlate.get(l.plateId);
-    if (!cur || (l.number ?? 0) > cur.number) perPlate.set(l.plateId, { projectId: l.projectId, status: l.status, number: l.number ?? 0 });
-  }
-  return rows.map((r) => {
-    const mine = [...perPlate.values()].filter((p) => p.projectId === r.id);
-    let status: ProjectSummary['status'] = 'empty';
-    for (const p of mine) {
-      const s = (p.status === 'superseded' ? 'approved' : p.status ?? 'draft') as keyof typeof STATUS_RANK;
-      if (STATUS_RANK[s] > STATUS_RANK[status]) status = s as ProjectSummary['status'];
+  const out: ProjectSummary[] = [];
+  const byId = new Map<number, ProjectSummary>();
+  for (const r of rows) {
+    let p = byId.get(r.id);
+    if (!p) {
+      p = { id: r.id, name: r.name, swapDescription: r.swapDescription, owner: { id: r.ownerId, name: r.ownerName }, plateCount: 0, status: 'empty', updatedAt: r.updatedAt.toISOString() };
+      byId.set(r.id, p);
+      out.push(p);
     }
-    return { id: r.id, name: r.name, swapDescription: r.swapDescription, owner: { id: r.ownerId, name: r.ownerName }, plateCount: mine.length, status, updatedAt: r.updatedAt.toISOString() };
-  });
+    if (r.plateId === null) continue;
+    p.plateCount++;
+    const s = (r.status === 'superseded' ? 'approved' : r.status ?? 'draft') as keyof typeof STATUS_RANK;
+    if (STATUS_RANK[s] > STATUS_RANK[p.status]) p.status = s as ProjectSummary['status'];
+  }
+  return out;
 }
 
 export async function createProject(db: Db, user: SessionUser, input: { name: string; swapDescription: string }): Promise<{ id: number }> {

@@ -116,6 +116,13 @@ interface RevisionContent {
 const contentCache = new LRUCache<string, RevisionContent>({ max: 500 });
 const contentKey = (id: number, specSha256: string, schemaVersion: number) => `${id}:${specSha256}:${schemaVersion}`;
 
+/**
+ * A released revision's file list is final: its files are inserted in the same transaction that
+ * makes it approved, and never changed or deleted. Kept only once the (fresh) status says released.
+ */
+type FileList = { name: string; sha256: string; bytes: number; contentType: string; kernelVersion: string; createdAt: Date }[];
+const releasedFilesCache = new LRUCache<string, FileList>({ max: 1000 });
+
 const parentRevisions = alias(revisions, 'parent_revisions');
 const authors = alias(users, 'authors');
 
@@ -125,7 +132,7 @@ const authors = alias(users, 'authors');
  * approved revisions only. Anything else (including ids that do not exist) is 404, so nothing
  * leaks about what exists. Always read fresh: status and membership change.
  */
-export async function revisionForViewer(db: Db | Tx, user: SessionUser, revisionId: number) {
+export async function revisionForViewer(db: Db | Tx, user: SessionUser, revisionId: number, fileName?: string) {
   const [r] = await db
     .select({
       id: revisions.id,
@@ -145,6 +152,10 @@ export async function revisionForViewer(db: Db | Tx, user: SessionUser, revision
       projectId: plates.projectId,
       ownerId: projects.ownerId,
       memberId: projectMembers.userId,
+      // the stored file asked for, if any (downloads: access check and file in one query)
+      fileId: artifacts.id,
+      fileContentType: artifacts.contentType,
+      fileSha256: artifacts.sha256,
     })
     .from(revisions)
     .innerJoin(plates, eq(plates.id, revisions.plateId))
@@ -152,6 +163,7 @@ export async function revisionForViewer(db: Db | Tx, user: SessionUser, revision
     .leftJoin(projectMembers, and(eq(projectMembers.projectId, projects.id), eq(projectMembers.userId, user.id)))
     .leftJoin(authors, eq(authors.id, revisions.authorId))
     .leftJoin(parentRevisions, eq(parentRevisions.id, revisions.parentRevisionId))
+    .leftJoin(artifacts, and(eq(artifacts.revisionId, revisions.id), eq(artifacts.kind, fileName ?? '')))
     .where(eq(revisions.id, revisionId))
     .limit(1);
   if (!r) throw notFound('Revision');
@@ -187,6 +199,20 @@ async function revisionContent(db: Db, r: { id: number; specSha256: string; spec
   return content;
 }
 
+async function revisionFiles(db: Db, r: { id: number; specSha256: string; status: RevisionStatus }): Promise<FileList> {
+  const released = r.status === 'approved' || r.status === 'superseded';
+  const key = `${r.id}:${r.specSha256}`;
+  const hit = released ? releasedFilesCache.get(key) : undefined;
+  if (hit) return hit.map((f) => ({ ...f }));
+  const files = await db
+    .select({ name: artifacts.kind, sha256: artifacts.sha256, bytes: artifacts.sizeBytes, contentType: artifacts.contentType, kernelVersion: artifacts.kernelVersion, createdAt: artifacts.createdAt })
+    .from(artifacts)
+    .where(eq(artifacts.revisionId, r.id))
+    .orderBy(asc(artifacts.kind));
+  if (released && files.length > 0) releasedFilesCache.set(key, files.map((f) => ({ ...f })));
+  return files;
+}
+
 /** Full revision for a viewer: spec, checks, state, history of reviews, files. */
 export async function getRevision(db: Db, user: SessionUser, revisionId: number) {
   const r = await revisionForViewer(db, user, revisionId);
@@ -198,11 +224,7 @@ export async function getRevision(db: Db, user: SessionUser, revisionId: number)
       .innerJoin(users, eq(users.id, reviews.reviewerId))
       .where(eq(reviews.revisionId, revisionId))
       .orderBy(asc(reviews.createdAt), asc(reviews.id)),
-    db
-      .select({ name: artifacts.kind, sha256: artifacts.sha256, bytes: artifacts.sizeBytes, contentType: artifacts.contentType, kernelVersion: artifacts.kernelVersion, createdAt: artifacts.createdAt })
-      .from(artifacts)
-      .where(eq(artifacts.revisionId, revisionId))
-      .orderBy(asc(artifacts.kind)),
+    revisionFiles(db, r),
   ]);
   const approval = [...history].reverse().find((h) => h.decision === 'approved');
   return {
@@ -434,18 +456,18 @@ export async function listReleases(db: Db, user: SessionUser) {
   });
 }
 
-/** A stored file of an approved revision, byte-identical to what was approved (bytes from memory by sha256 when seen before). */
-export async function getStoredFile(db: Db, revisionId: number, name: string) {
-  const [a] = await db
-    .select({ id: artifacts.id, kind: artifacts.kind, contentType: artifacts.contentType, sha256: artifacts.sha256, sizeBytes: artifacts.sizeBytes })
-    .from(artifacts)
-    .where(and(eq(artifacts.revisionId, revisionId), eq(artifacts.kind, name)))
-    .limit(1);
-  if (!a) return undefined;
-  const bytes = await artifactBytes(a.sha256, async () => {
-    const [row] = await db.select({ bytes: artifacts.bytes }).from(artifacts).where(eq(artifacts.id, a.id)).limit(1);
+/**
+ * A stored file of a revision the caller may see, byte-identical to what was approved (bytes from
+ * memory by sha256 when seen before). The access check and the file's row come in one query;
+ * `file` is undefined when the revision has no stored file of that name.
+ */
+export async function storedFileForViewer(db: Db, user: SessionUser, revisionId: number, name: string) {
+  const rev = await revisionForViewer(db, user, revisionId, name);
+  if (rev.fileId === null || rev.fileSha256 === null || rev.fileContentType === null) return { rev, file: undefined };
+  const fileId = rev.fileId;
+  const bytes = await artifactBytes(rev.fileSha256, async () => {
+    const [row] = await db.select({ bytes: artifacts.bytes }).from(artifacts).where(eq(artifacts.id, fileId)).limit(1);
     return row?.bytes;
   });
-  if (!bytes) return undefined;
-  return { ...a, bytes };
+  return { rev, file: bytes ? { bytes, contentType: rev.fileContentType, sha256: rev.fileSha256 } : undefined };
 }

@@ -2,7 +2,7 @@ import type { APIRoute } from 'astro';
 import { requireRole } from '~/server/auth/guard';
 import { getDb } from '~/server/db/client';
 import { AppError, handle, idParam, notFound } from '~/server/errors';
-import { getStoredFile, findRevision, revisionForViewer } from '~/server/repos/revisions';
+import { findRevision, storedFileForViewer } from '~/server/repos/revisions';
 import { isFileName } from '~/server/fileNames';
 import { contentDisposition, downloadFileName } from '~/server/files/index';
 import { renderOne } from '~/server/release';
@@ -20,8 +20,8 @@ export const GET: APIRoute = ({ locals, params }) =>
     const id = idParam(params.id, 'Revision');
     const name = params.name ?? '';
     if (!isFileName(name)) throw new AppError(404, 'not_found', `No file called ${name}; a revision has drawing.pdf, plate.dxf, plate.step, plate.svg and holes.csv.`);
-    const rev = await revisionForViewer(getDb(), g.user, id); // access rules, read fresh (machinists: released only)
-    const stored = await getStoredFile(getDb(), id, name);
+    // access rules read fresh (machinists: released only) and the stored file, in one query
+    const { rev, file: stored } = await storedFileForViewer(getDb(), g.user, id, name);
     let bytes: Uint8Array;
     let contentType: string;
     let sha: string;

@@ -6,7 +6,7 @@
  * already let another order become `inspected` does not count again (two orders of the same
  * revision are two parts, each inspected).
  */
-import { and, desc, eq, isNull, or } from 'drizzle-orm';
+import { desc, eq } from 'drizzle-orm';
 import type { Db, Tx } from '../db/client';
 import { inspections, orders } from '../db/schema';
 
@@ -14,14 +14,19 @@ export type InspectionResult = { status: 'passed' | 'accepted' | 'failed' | 'non
 
 export async function inspectionResultForOrder(db: Db | Tx, order: { id: number; revisionId: number; paidAt: Date | null }): Promise<InspectionResult> {
   const rows = await db
-    .select({ id: inspections.id, state: inspections.state, completedAt: inspections.completedAt, acceptedAt: inspections.acceptedAt })
+    .select({ id: inspections.id, state: inspections.state, completedAt: inspections.completedAt, acceptedAt: inspections.acceptedAt, usedBy: orders.id })
     .from(inspections)
     .leftJoin(orders, eq(orders.inspectionId, inspections.id))
-    .where(and(eq(inspections.revisionId, order.revisionId), or(isNull(orders.id), eq(orders.id, order.id))))
+    .where(eq(inspections.revisionId, order.revisionId))
     .orderBy(desc(inspections.id))
     .limit(200);
   const since = order.paidAt?.getTime() ?? 0;
-  const finished = rows.filter((r) => r.state !== 'in_progress' && (r.acceptedAt ?? r.completedAt ?? new Date(0)).getTime() >= since);
+  // A failed inspection older than one another order has used belongs to that order's part (it
+  // was inspected again and passed); only what came after it can be this order's part.
+  const lastUsedElsewhere = Math.max(0, ...rows.filter((r) => r.usedBy !== null && r.usedBy !== order.id).map((r) => r.id));
+  const finished = rows.filter(
+    (r) => r.state !== 'in_progress' && (r.usedBy === null || r.usedBy === order.id) && r.id > lastUsedElsewhere && (r.acceptedAt ?? r.completedAt ?? new Date(0)).getTime() >= since,
+  );
   const ok = finished.find((r) => r.state === 'passed' || r.state === 'accepted_with_deviation');
   if (ok) return { status: ok.state === 'passed' ? 'passed' : 'accepted', detail: `inspection ${ok.id} ${ok.state === 'passed' ? 'passed' : 'accepted with deviation'}`, inspectionId: ok.id };
   const failed = finished.find((r) => r.state === 'failed');

@@ -116,11 +116,31 @@ describe('plate editor in Chromium', () => {
     await page.getByLabel('E3 X').press('Escape');
     await alert.waitFor({ state: 'detached' });
 
+    // both units in a length cell: the other unit under the value (1 in = 25.4 mm)
+    const e2Alt = await page.locator('[data-row="E2"] [data-alt-unit]').first().innerText();
+    expect(e2Alt).toMatch(/ in$/);
+    expect(Number(e2Alt.replace(' in', ''))).toBeCloseTo(Number(e2x) / 25.4, 3);
+    // inch text typed in mm mode is read as inch: 4.5" = 114.3 mm
+    await page.getByLabel('E3 X').fill('4.5"');
+    await expect.poll(async () => Number(await page.locator('[data-testid="plate-drawing"] [data-feature="E3"] circle').last().getAttribute('cx'))).toBeCloseTo(114.3, 6);
+    await page.keyboard.press('Control+z');
+    await expect.poll(async () => page.locator('[data-testid="plate-drawing"] [data-feature="E3"] circle').last().getAttribute('cx')).toBe(before);
+
     // units: inch shown everywhere, the stored value unchanged
+    const mmMessages = await page.locator('[data-finding-message]').allInnerTexts();
     await page.getByTestId('units-toggle').click();
     expect(await page.locator('th', { hasText: 'X (in)' }).count()).toBe(1);
     const e2xIn = Number(await page.getByLabel('E2 X').inputValue());
     expect(e2xIn).toBeCloseTo(Number(e2x) / 25.4, 3); // 1 in = 25.4 mm
+    expect(await page.locator('[data-row="E2"] [data-alt-unit]').first().innerText()).toMatch(/^-?\d+\.\d\d mm$/);
+    // findings in inch too: every "N mm" figure of the mm text now reads "X in [N mm]"
+    const withMm = mmMessages.find((m) => /\d mm\b/.test(m));
+    expect(withMm, 'the demo plate has a finding with a length in it').toBeDefined();
+    const inchMessages = await page.locator('[data-finding-message]').allInnerTexts();
+    const figure = /(\d+(?:\.\d+)?) mm/.exec(withMm!)![1]!;
+    const inInch = inchMessages.find((m) => m.includes(`in [${figure} mm]`));
+    expect(inInch, inchMessages.join('\n')).toBeDefined();
+    expect(inInch).toContain(`${(Number(figure) / 25.4).toFixed(Math.max(3, (figure.split('.')[1]?.length ?? 0) + 1))} in [${figure} mm]`);
     await page.screenshot({ path: `${SHOTS}/editor-inch-1366.png` });
 
     // large monitor
@@ -175,6 +195,88 @@ describe('plate editor in Chromium', () => {
 
     await page.goto(`${base}/plates/${plateId}`);
     expect(await page.getByTestId('timeline').innerText()).toMatch(/rev 2/);
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it('edits an own polygon outline: corner table, paste, drag, and clear messages for bad outlines', async () => {
+    const { context, page } = await signedIn('designer@example.test');
+    const errors: string[] = [];
+    page.on('pageerror', (e) => errors.push(e.message));
+    const { plateId } = await demoPlate(page, 'Editor outline');
+    await openEditor(page, plateId);
+    await page.getByRole('button', { name: /I understand/ }).click();
+    await page.getByRole('tab', { name: /Plate · outline/ }).click();
+    await page.getByTestId('outline-polygon').check();
+    const rows = page.locator('[data-testid="vertex-table"] tbody tr');
+    await expect.poll(() => rows.count()).toBe(4);
+    const arcsBefore = await page.getByTestId('outline').getAttribute('d');
+    expect(await count(page, 'error')).toBe(0);
+
+    // own radius on corner 1; the other unit shows under it (20 mm = 0.787 in)
+    await page.getByLabel('Corner 1 radius').fill('20');
+    expect(await page.locator('[data-vertex="1"] [data-alt-unit]').last().innerText()).toBe('0.787 in');
+    await expect.poll(() => page.getByTestId('outline').getAttribute('d')).not.toBe(arcsBefore);
+
+    // a radius too large for its corner: said in words, nothing crashes, the drawing keeps the last plate
+    await page.getByLabel('Corner 1 radius').fill('900');
+    const problems = page.getByTestId('outline-problems');
+    await problems.waitFor();
+    expect(await problems.innerText()).toMatch(/corner radii are too large for the edge from corner \d to corner \d/);
+    await page.getByLabel('Corner 1 radius').fill('');
+    await problems.waitFor({ state: 'detached' });
+
+    // a bow tie: corners 3 and 4 swapped cross the outline
+    await page.getByRole('button', { name: 'Move corner 3 down' }).click();
+    await problems.waitFor();
+    expect(await problems.innerText()).toMatch(/crosses itself: the edge from corner \d to \d crosses the edge from corner \d to \d/);
+    await page.getByRole('button', { name: 'Move corner 3 down' }).click();
+    await problems.waitFor({ state: 'detached' });
+
+    // fewer than 3 corners
+    await page.getByRole('button', { name: 'Delete corner 4' }).click();
+    await page.getByRole('button', { name: 'Delete corner 3' }).click();
+    await problems.waitFor();
+    expect(await problems.innerText()).toMatch(/at least 3 corners; it has 2/);
+    await page.keyboard.press('Control+z');
+    await page.keyboard.press('Control+z');
+    await problems.waitFor({ state: 'detached' });
+
+    // paste a smaller outline (inch header): holes end up outside it, a check finding names them
+    await page.getByTestId('vertex-paste').locator('summary').click();
+    await page.getByLabel('Corner rows to paste').fill('X (in)\tY (in)\n-3\t-3\n3\t-3\n3\t3\n-3\t3');
+    await page.getByRole('button', { name: 'Replace the corners' }).click();
+    await expect.poll(() => rows.count()).toBe(4);
+    // 3 in = 76.2 mm
+    expect(await page.getByLabel('Corner 2 X').inputValue()).toBe('76.2');
+    await page.locator('[data-testid="findings-panel"] [data-finding-code="outline.breakthrough"]').first().waitFor();
+    expect(await count(page, 'error')).toBeGreaterThan(0);
+    await page.screenshot({ path: `${SHOTS}/editor-outline-1366.png` });
+
+    // drag corner 3 on the drawing: its X and Y follow the pointer (on a 0.5 mm grid)
+    const handle = page.locator('[data-corner="3"] rect');
+    const box = (await handle.boundingBox())!;
+    await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2);
+    await page.mouse.down();
+    await page.mouse.move(box.x + box.width / 2 + 60, box.y + box.height / 2 - 40, { steps: 6 });
+    await page.mouse.up();
+    const x3 = Number(await page.getByLabel('Corner 3 X').inputValue());
+    const y3 = Number(await page.getByLabel('Corner 3 Y').inputValue());
+    expect(x3).toBeGreaterThan(76.2);
+    expect(y3).toBeGreaterThan(76.2);
+    expect((x3 * 2) % 1).toBe(0);
+    // one undo step for the whole drag
+    await page.keyboard.press('Control+z');
+    await expect.poll(async () => page.getByLabel('Corner 3 X').inputValue()).toBe('76.2');
+
+    // back to automatic: no vertex table, no outline errors
+    await page.getByRole('radio', { name: /Automatic/ }).check();
+    await expect.poll(() => page.getByTestId('vertex-table').count()).toBe(0);
+    await expect.poll(() => count(page, 'error')).toBe(0);
+    await page.setViewportSize({ width: 1920, height: 1080 });
+    await page.getByTestId('outline-polygon').check();
+    await page.waitForTimeout(200);
+    await page.screenshot({ path: `${SHOTS}/editor-outline-1920.png` });
     expect(errors).toEqual([]);
     await context.close();
   });

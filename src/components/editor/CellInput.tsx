@@ -15,6 +15,8 @@ interface Props {
   placeholder?: string;
   muted?: boolean;
   title?: string;
+  /** the value in the other unit, shown small under the cell (e.g. "2.000 in" under 50.8) */
+  alt?: string;
 }
 
 /**
@@ -23,7 +25,7 @@ interface Props {
  * stays in the cell with its message and changes nothing in the document. Escape restores the
  * document's value. Arrow up/down and Enter move between rows, like a spreadsheet.
  */
-export function CellInput({ value, read, issue, cell, label, className = '', placeholder, muted, title }: Props) {
+export function CellInput({ value, read, issue, cell, label, className = '', placeholder, muted, title, alt }: Props) {
   const [draft, setDraft] = useState<string | null>(null);
   const [error, setError] = useState<string | null>(null);
   const focused = useRef(false);
@@ -80,8 +82,13 @@ export function CellInput({ value, read, issue, cell, label, className = '', pla
         onKeyDown={onKeyDown}
         className={`w-full rounded-sm border px-1.5 py-1 font-mono text-[15px] tabular-nums outline-none focus:border-plate-700 focus:ring-2 focus:ring-brass-500 ${
           message ? 'border-finding-error bg-red-50' : 'border-transparent hover:border-blast-200'
-        } ${muted && draft === null ? 'italic text-plate-500' : ''} ${className}`}
+        } ${muted && draft === null ? 'italic text-plate-500' : ''} ${alt ? 'pb-0 pt-0.5' : ''} ${className}`}
       />
+      {alt && (
+        <span aria-hidden="true" className={`pointer-events-none block px-1.5 font-mono text-[12px] leading-[14px] tabular-nums text-plate-500 ${className.includes('text-right') ? 'text-right' : ''}`} data-alt-unit>
+          {alt}
+        </span>
+      )}
       {error && (
         <p role="alert" className="absolute left-0 top-full z-20 mt-0.5 w-64 rounded bg-finding-error px-2 py-1 text-xs font-semibold text-white shadow">
           {error}

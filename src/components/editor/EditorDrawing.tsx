@@ -52,20 +52,37 @@ interface Props {
   onHover(id: string | null): void;
   onSelect(ids: string[]): void;
   stale: boolean;
+  /** corners of an own polygon outline to drag (null: no handles) */
+  corners?: readonly { x: number; y: number }[] | null;
+  /** a corner dragged to `at` (plate coordinates, mm); one `dragId` per drag */
+  onMoveCorner?(index: number, at: { x: number; y: number }, dragId: number): void;
 }
+
+/** Dragged corners land on this grid (mm). */
+const CORNER_GRID_MM = 0.5;
 
 type View = { x: number; y: number; w: number; h: number };
 
 function fitView(profile: PlateProfile, extra = 0): View {
-  const b = profile.bbox;
+  // the outline and every feature (a feature outside an own outline stays in view)
+  const b = { ...profile.bbox };
+  for (const h of profile.holes) {
+    const r = (h.counterbore?.diameterMm ?? h.diameterMm) / 2;
+    b.minX = Math.min(b.minX, h.center.x - r);
+    b.maxX = Math.max(b.maxX, h.center.x + r);
+    b.minY = Math.min(b.minY, h.center.y - r);
+    b.maxY = Math.max(b.maxY, h.center.y + r);
+  }
   const pad = Math.max(b.maxX - b.minX, b.maxY - b.minY) * 0.08 + 8 + extra;
   return { x: b.minX - pad, y: -b.maxY - pad, w: b.maxX - b.minX + 2 * pad, h: b.maxY - b.minY + 2.6 * pad };
 }
 
-function EditorDrawingInner({ profile, doc, findings, units, hovered, selected, selectedFinding, onHover, onSelect, stale }: Props) {
+function EditorDrawingInner({ profile, doc, findings, units, hovered, selected, selectedFinding, onHover, onSelect, stale, corners, onMoveCorner }: Props) {
   const svgRef = useRef<SVGSVGElement>(null);
   const [view, setView] = useState<View | null>(null);
   const drag = useRef<{ px: number; py: number; v: View; moved: boolean } | null>(null);
+  const cornerDrag = useRef<{ index: number; id: number } | null>(null);
+  const [draggingCorner, setDraggingCorner] = useState<number | null>(null);
   const fitted = useMemo(() => fitView(profile), [profile]);
   const v = view ?? fitted;
   const guides = useMemo(() => guideCircles(doc), [doc]);
@@ -108,9 +125,24 @@ function EditorDrawingInner({ profile, doc, findings, units, hovered, selected, 
     return () => el.removeEventListener('wheel', stop);
   }, []);
   const onPointerDown = (e: RPointerEvent<SVGSVGElement>) => {
+    const handle = (e.target as Element).closest('[data-corner]');
+    if (handle && onMoveCorner) {
+      const index = Number(handle.getAttribute('data-corner')) - 1;
+      cornerDrag.current = { index, id: Date.now() };
+      setDraggingCorner(index);
+      (e.currentTarget as Element).setPointerCapture?.(e.pointerId);
+      return;
+    }
     drag.current = { px: e.clientX, py: e.clientY, v, moved: false };
   };
   const onPointerMove = (e: RPointerEvent<SVGSVGElement>) => {
+    const c = cornerDrag.current;
+    if (c && onMoveCorner) {
+      const p = toSvg(e.clientX, e.clientY, v);
+      const snap = (n: number) => Math.round(n / CORNER_GRID_MM) * CORNER_GRID_MM;
+      onMoveCorner(c.index, { x: snap(p.x), y: snap(-p.y) }, c.id);
+      return;
+    }
     const d = drag.current;
     if (!d) return;
     const dx = e.clientX - d.px;
@@ -122,6 +154,11 @@ function EditorDrawingInner({ profile, doc, findings, units, hovered, selected, 
     setView({ ...d.v, x: d.v.x - dx * scale, y: d.v.y - dy * scale });
   };
   const onPointerUp = (e: RPointerEvent<SVGSVGElement>) => {
+    if (cornerDrag.current) {
+      cornerDrag.current = null;
+      setDraggingCorner(null);
+      return;
+    }
     const d = drag.current;
     drag.current = null;
     if (d && !d.moved) {
@@ -180,6 +217,17 @@ function EditorDrawingInner({ profile, doc, findings, units, hovered, selected, 
         </text>
         {findings.map((f, i) => (f.at && (f.severity !== 'note' || selectedFinding === i) ? <FindingMark key={i} f={f} px={px} active={selectedFinding === i} /> : null))}
         {selHole && <Dimension h={selHole} px={px} units={units} view={v} />}
+        {corners?.map((c, i) => (
+          <g key={i} data-corner={i + 1} className="cursor-move">
+            <rect x={c.x - 6 * px} y={-c.y - 6 * px} width={12 * px} height={12 * px} fill={draggingCorner === i ? '#f2b544' : '#ffffff'} stroke="#10232d" strokeWidth={1.8 * px} />
+            <text x={c.x + 9 * px} y={-c.y + 16 * px} fontSize={12 * px} fontWeight={700} fill="#10232d" stroke="#ffffff" strokeWidth={3 * px} paintOrder="stroke">{i + 1}</text>
+          </g>
+        ))}
+        {draggingCorner !== null && corners?.[draggingCorner] && (
+          <text x={v.x + 10 * px} y={v.y + 22 * px} fontSize={14 * px} fontWeight={700} fill="#10232d" stroke="#ffffff" strokeWidth={3 * px} paintOrder="stroke" data-testid="corner-readout">
+            corner {draggingCorner + 1}: X {showLength(corners[draggingCorner]!.x, units)}  Y {showLength(corners[draggingCorner]!.y, units)}
+          </text>
+        )}
       </svg>
       <div className="absolute right-2 top-11 flex gap-1">
         <button type="button" className="rounded border border-blast-200 bg-white px-2 py-1 text-sm hover:bg-plate-100" onClick={() => setView(null)} title="Fit the plate in view">Fit</button>
@@ -213,6 +261,20 @@ function LegendRow({ face }: { face: keyof typeof FACE_LOOK }) {
   );
 }
 
+/** Same look: every field the mark draws (a new profile makes new hole objects on each edit). */
+function sameMark(a: MarkProps, b: MarkProps): boolean {
+  if (a.px !== b.px || a.hovered !== b.hovered || a.selected !== b.selected || a.flag !== b.flag || a.onHover !== b.onHover) return false;
+  const g = a.h;
+  const k = b.h;
+  if (g === k) return true;
+  return (
+    g.id === k.id && g.face === k.face && g.operation === k.operation && g.center.x === k.center.x && g.center.y === k.center.y && g.diameterMm === k.diameterMm &&
+    g.counterbore?.diameterMm === k.counterbore?.diameterMm
+  );
+}
+
+interface MarkProps { h: ProfileHole; px: number; hovered: boolean; selected: boolean; flag?: keyof typeof SEV_COLOUR; onHover(id: string | null): void }
+
 const HoleMark = memo(function HoleMark({ h, px, hovered, selected, flag, onHover }: { h: ProfileHole; px: number; hovered: boolean; selected: boolean; flag?: keyof typeof SEV_COLOUR; onHover(id: string | null): void }) {
   const look = FACE_LOOK[h.face];
   const r = h.diameterMm / 2;
@@ -233,7 +295,7 @@ const HoleMark = memo(function HoleMark({ h, px, hovered, selected, flag, onHove
       </text>
     </g>
   );
-});
+}, sameMark);
 
 function FindingMark({ f, px, active }: { f: Finding; px: number; active: boolean }) {
   const c = SEV_COLOUR[f.severity];
@@ -269,7 +331,8 @@ function Dimension({ h, px, units, view }: { h: ProfileHole; px: number; units: 
   const boxW = fs * 0.62 * Math.max(...lines.map((l) => l.length)) + 8 * px;
   // the label goes to the side of the hole with room for it, and never above the view
   const right = x + r + 24 * px + boxW < view.x + view.w;
-  const tx = right ? x + r + 24 * px : x - r - 24 * px - boxW + 4 * px;
+  // …and never off the left edge either
+  const tx = right ? x + r + 24 * px : Math.max(x - r - 24 * px - boxW + 4 * px, view.x + 8 * px);
   const ty = Math.max(-y - r - 24 * px, view.y + fs * 1.6);
   return (
     <g data-testid="dimension" pointerEvents="none">

@@ -1,5 +1,7 @@
 import { memo } from 'react';
 import type { Finding, SpecIssue } from '~/domain';
+import { lengthsInUnits } from '~/domain/editor/findingUnits';
+import type { DisplayUnits } from '~/domain/editor/units';
 
 const SEV = {
   error: { label: 'Error', cls: 'border-finding-error text-finding-error', dot: '●' },
@@ -10,7 +12,7 @@ const SEV = {
 /** Live check findings (and spec problems that stop the plate being laid out). Clicking a finding selects its features. */
 const RANK = { error: 0, warning: 1, note: 2 } as const;
 
-export const FindingsPanel = memo(function FindingsPanel({ findings, issues, selected, onPick }: { findings: readonly Finding[]; issues: readonly SpecIssue[]; selected: number | null; onPick(i: number, f: Finding): void }) {
+export const FindingsPanel = memo(function FindingsPanel({ findings, issues, selected, onPick, units }: { findings: readonly Finding[]; issues: readonly SpecIssue[]; selected: number | null; onPick(i: number, f: Finding): void; units: DisplayUnits }) {
   // errors first, then warnings, then notes; the index stays the finding's own (for the drawing)
   const order = findings.map((f, i) => ({ f, i })).sort((a, b) => RANK[a.f.severity] - RANK[b.f.severity] || a.i - b.i);
   return (
@@ -22,7 +24,7 @@ export const FindingsPanel = memo(function FindingsPanel({ findings, issues, sel
         {issues.length > 0 && (
           <div className="mb-2 rounded border-l-4 border-finding-error bg-red-50 p-2 text-sm" data-testid="spec-issues">
             <p className="font-bold text-finding-error">The plate cannot be laid out until these are fixed:</p>
-            <ul className="mt-1 space-y-0.5">{issues.map((i) => <li key={i.path}><code className="text-xs">{i.path}</code>: {i.message}</li>)}</ul>
+            <ul className="mt-1 space-y-0.5">{issues.map((i) => <li key={i.path}><code className="text-xs">{i.path}</code>: {lengthsInUnits(i.message, units)}</li>)}</ul>
           </div>
         )}
         {findings.length === 0 && issues.length === 0 && <p className="p-2 text-sm text-emerald-800">No findings: every check passes.</p>}
@@ -43,8 +45,8 @@ export const FindingsPanel = memo(function FindingsPanel({ findings, issues, sel
                     <span aria-hidden="true">{s.dot}</span>{s.label}
                     <span className="font-mono font-semibold normal-case text-plate-700">{f.featureIds.join(' · ')}</span>
                   </span>
-                  <span className="block text-slate-ink">{f.message}</span>
-                  <span className="mt-0.5 block text-xs text-plate-500">{f.rule} — {f.source}</span>
+                  <span className="block text-slate-ink" data-finding-message>{lengthsInUnits(f.message, units)}</span>
+                  <span className="mt-0.5 block text-xs text-plate-500">{lengthsInUnits(f.rule, units)} — {f.source}</span>
                 </button>
               </li>
             );

@@ -3,10 +3,11 @@ import { createColumnHelper, flexRender, getCoreRowModel, getSortedRowModel, use
 import type { PlateSpecInput } from '~/domain';
 import { parseFastener } from '~/domain/standards/threads';
 import { isDomainError } from '~/domain/errors';
-import { editText, readLength, type DisplayUnits } from '~/domain/editor/units';
+import { editText, otherUnitText, readLength, type DisplayUnits } from '~/domain/editor/units';
 import { parseHoleRows } from '~/domain/editor/paste';
 import { addPastedRows, deleteHoles, duplicateHole, holeFacePosition, patchHole, setHoleCoordinate, type FaceKey, type HoleInput } from '~/domain/editor/specOps';
 import { CellInput, type CellVerdict } from './CellInput';
+import { MeasuredSource } from './MeasuredSource';
 
 /** A new document, or an edit applied to the newest one (safe when the caller rendered an older one). */
 export type Commit = (next: PlateSpecInput | ((current: PlateSpecInput) => PlateSpecInput), key?: string) => void;
@@ -118,6 +119,7 @@ export const HoleTable = memo(function HoleTable({ doc, face, units, issues, hov
                 cell={`${row.index}:${axis}`}
                 label={`${r.hole.id} ${axis.toUpperCase()}`}
                 value={editText(r[axis] ?? undefined, units)}
+                alt={otherUnitText(r[axis] ?? undefined, units)}
                 muted={onPattern}
                 title={onPattern ? `on bolt circle ${r.hole.patternId}, slot ${(r.hole.index ?? 0) + 1}; typing a value places the hole by coordinates` : undefined}
                 issue={issueAt(r.index, axis)}
@@ -147,6 +149,7 @@ export const HoleTable = memo(function HoleTable({ doc, face, units, issues, hov
                   cell={`${row.index}:size`}
                   label={`${r.hole.id} dowel diameter`}
                   value={editText(r.hole.dowel?.diameterMm, units)}
+                  alt={otherUnitText(r.hole.dowel?.diameterMm, units)}
                   issue={issueAt(r.index, 'dowel') ?? issues.get(`${face}.holes.${r.index}.dowel.fit`)}
                   read={(t) => {
                     const v = readLength(t, units, { positive: true });
@@ -331,6 +334,7 @@ export const HoleTable = memo(function HoleTable({ doc, face, units, issues, hov
         </tbody>
       </table>
       {rows.length === 0 && <p className="p-3 text-sm text-plate-700">No holes on this face yet. Add a bolt circle above, or paste rows (X, Y, size) from a spreadsheet into this table.</p>}
+      <MeasuredSource doc={doc} face={face} units={units} hovered={hovered} selected={selected} />
       {pasteReport && (
         <div role="status" className={`mt-2 rounded border px-3 py-2 text-sm ${pasteReport.problems.length ? 'border-finding-warning bg-amber-50' : 'border-emerald-600 bg-emerald-50'}`} data-testid="paste-report">
           <p className="font-semibold">{pasteReport.added.length ? `Added ${pasteReport.added.length} hole${pasteReport.added.length === 1 ? '' : 's'}: ${pasteReport.added.join(', ')}` : 'Nothing added.'}</p>

@@ -16,7 +16,9 @@ import { FindingsPanel } from './FindingsPanel';
 import { CentreBoreSection, PlateSection, StarterSection } from './SectionForms';
 import { StackUpPanel } from './StackUpPanel';
 import { SafetyPanel } from './SafetyPanel';
-import { evaluateDoc } from './evaluate';
+import { checkLayout, layoutDoc, type Evaluation } from './evaluate';
+import { OutlineEditor } from './OutlineEditor';
+import { polygonOf, patchVertex, withPolygon } from '~/domain/editor/outlinePolygon';
 import { download } from './download';
 
 const Plate3D = lazy(() => import('./Plate3D'));
@@ -87,9 +89,18 @@ export default function PlateEditor(props: PlateEditorProps) {
   };
 
   const doc = history?.present ?? null;
-  const evaluation = useMemo(() => (doc ? evaluateDoc(doc) : null), [doc]);
-  // the table, the forms and the findings list render after the drawing (they are bigger);
-  // their edits are applied to the newest document, so a late render never loses one
+  // a keystroke renders the drawing first: schema + profile now, the checks (the larger part of
+  // the work) in a deferred render right after; the table, the forms and the findings list render
+  // after the drawing too. Their edits are applied to the newest document, so a late render never loses one.
+  const layout = useMemo(() => (doc ? layoutDoc(doc) : null), [doc]);
+  const checkedLayout = useDeferredValue(layout);
+  const checked = useMemo(() => (checkedLayout ? checkLayout(checkedLayout) : null), [checkedLayout]);
+  const evaluation: Evaluation | null = useMemo(() => {
+    if (!layout) return null;
+    // findings of an older layout stay up until this one's are in (one deferred render later)
+    const findings = checked && (checked.layout === layout || layout.profile) ? checked.findings : NO_FINDINGS;
+    return { spec: layout.spec, profile: layout.profile, findings, issues: layout.issues, issueMap: layout.issueMap, ms: layout.ms + (checked?.ms ?? 0) };
+  }, [layout, checked]);
   const panelDoc = useDeferredValue(doc);
   const panelEval = useDeferredValue(evaluation);
   if (evaluation?.profile) lastGood.current = evaluation.profile;
@@ -168,6 +179,17 @@ export default function PlateEditor(props: PlateEditorProps) {
     }
   }, []);
   const select = useCallback((ids: string[]) => setSelected(ids), []);
+  // corners of an own polygon outline, dragged on the drawing (one undo step per drag)
+  const cornerPoints = useMemo(() => {
+    const p = doc ? polygonOf(doc) : null;
+    return p ? p.vertices.map((v) => ({ x: v.xMm, y: v.yMm })) : null;
+  }, [doc]);
+  const moveCorner = useCallback((i: number, at: { x: number; y: number }, dragId: number) => {
+    commit((d) => {
+      const p = polygonOf(d);
+      return p ? withPolygon(d, { ...p, vertices: patchVertex(p.vertices, i, { xMm: at.x, yMm: at.y }) }) : d;
+    }, `corner-drag:${dragId}`);
+  }, [commit]);
 
   useEffect(() => {
     if (!selected[0]) return;
@@ -300,7 +322,7 @@ export default function PlateEditor(props: PlateEditorProps) {
         {/* left: inputs */}
         <div className="flex min-h-0 flex-col border-r border-plate-300 bg-white">
           <div role="tablist" aria-label="Editor sections" className="flex border-b border-plate-300 bg-plate-100 text-[15px] font-semibold">
-            {([['holes', `Holes (${faceHoles('engineFace') + faceHoles('transmissionFace')})`], ['plate', 'Plate · bore · starter'], ['stack', 'Thickness stack-up']] as const).map(([k, l]) => (
+            {([['holes', `Holes (${faceHoles('engineFace') + faceHoles('transmissionFace')})`], ['plate', 'Plate · outline · starter'], ['stack', 'Thickness stack-up']] as const).map(([k, l]) => (
               <button key={k} role="tab" type="button" aria-selected={tab === k} onClick={() => setTab(k)} className={`px-4 py-2 ${tab === k ? 'border-b-4 border-brass-500 bg-white text-plate-900' : 'text-plate-700 hover:bg-white/60'}`}>{l}</button>
             ))}
           </div>
@@ -324,7 +346,8 @@ export default function PlateEditor(props: PlateEditorProps) {
             )}
             {tab === 'plate' && (
               <div className="space-y-5">
-                <Section title="Plate, outline and material"><PlateSection key={unitsKey} doc={doc} units={units} commit={commit} issues={evaluation?.issueMap ?? NO_ISSUES} readOnly={readOnly} /></Section>
+                <Section title="Outline"><OutlineEditor doc={doc} profile={profile} units={units} commit={commit} issues={evaluation?.issueMap ?? NO_ISSUES} readOnly={readOnly} /></Section>
+                <Section title="Plate, edge and material"><PlateSection key={unitsKey} doc={doc} units={units} commit={commit} issues={evaluation?.issueMap ?? NO_ISSUES} readOnly={readOnly} /></Section>
                 <Section title="Centre bore / register"><CentreBoreSection key={unitsKey} doc={doc} units={units} commit={commit} issues={evaluation?.issueMap ?? NO_ISSUES} readOnly={readOnly} /></Section>
                 <Section title="Starter"><StarterSection key={unitsKey} doc={doc} units={units} commit={commit} issues={evaluation?.issueMap ?? NO_ISSUES} readOnly={readOnly} /></Section>
               </div>
@@ -342,7 +365,8 @@ export default function PlateEditor(props: PlateEditorProps) {
               ))}
             </div>
             {view === '2d' && profile && mounted && (
-              <EditorDrawing profile={profile} doc={doc} findings={findings} units={units} hovered={hovered} selected={selected} selectedFinding={selectedFinding} onHover={setHovered} onSelect={select} stale={!evaluation?.profile} />
+              <EditorDrawing profile={profile} doc={doc} findings={findings} units={units} hovered={hovered} selected={selected} selectedFinding={selectedFinding} onHover={setHovered} onSelect={select} stale={!evaluation?.profile}
+                corners={tab === 'plate' && !readOnly ? cornerPoints : null} onMoveCorner={moveCorner} />
             )}
             {view === '2d' && !profile && <p className="p-6 text-finding-error">The plate cannot be laid out yet — see the problems listed under Checks.</p>}
             {view === '3d' && (
@@ -352,11 +376,11 @@ export default function PlateEditor(props: PlateEditorProps) {
             )}
           </div>
           <div className="min-h-0 border-t border-plate-300 bg-blast-50 2xl:hidden">
-            <FindingsPanel findings={panelEval?.findings ?? NO_FINDINGS} issues={panelEval?.issues ?? NO_FINDINGS_ISSUES} selected={selectedFinding} onPick={pickFinding} />
+            <FindingsPanel findings={panelEval?.findings ?? NO_FINDINGS} issues={panelEval?.issues ?? NO_FINDINGS_ISSUES} selected={selectedFinding} onPick={pickFinding} units={units} />
           </div>
         </div>
         <div className="hidden min-h-0 border-l border-plate-300 bg-blast-50 2xl:block">
-          <FindingsPanel findings={panelEval?.findings ?? NO_FINDINGS} issues={panelEval?.issues ?? NO_FINDINGS_ISSUES} selected={selectedFinding} onPick={pickFinding} />
+          <FindingsPanel findings={panelEval?.findings ?? NO_FINDINGS} issues={panelEval?.issues ?? NO_FINDINGS_ISSUES} selected={selectedFinding} onPick={pickFinding} units={units} />
         </div>
       </div>
 

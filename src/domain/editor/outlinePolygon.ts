@@ -50,17 +50,20 @@ export function withPolygon(doc: PlateSpecInput, poly: PolygonInput): PlateSpecI
 
 /**
  * A starting polygon: the rectangle round a bounding box (e.g. the current automatic outline's),
- * corners counter-clockwise from the lower left, every corner with the common radius.
+ * widened to whole millimetres, corners counter-clockwise from the lower left, every corner with
+ * the common radius.
  */
 export function rectangleAround(b: BoundingBox, cornerRadiusMm: number): PolygonInput {
-  const r = (v: number) => Math.round(v * 1000) / 1000;
+  // a hair of float noise (1e-6 mm) is not a millimetre more
+  const lo = (v: number) => Math.floor(v + 1e-6);
+  const hi = (v: number) => Math.ceil(v - 1e-6);
   return {
     cornerRadiusMm,
     vertices: [
-      { xMm: r(b.minX), yMm: r(b.minY), radiusMm: null },
-      { xMm: r(b.maxX), yMm: r(b.minY), radiusMm: null },
-      { xMm: r(b.maxX), yMm: r(b.maxY), radiusMm: null },
-      { xMm: r(b.minX), yMm: r(b.maxY), radiusMm: null },
+      { xMm: lo(b.minX), yMm: lo(b.minY), radiusMm: null },
+      { xMm: hi(b.maxX), yMm: lo(b.minY), radiusMm: null },
+      { xMm: hi(b.maxX), yMm: hi(b.maxY), radiusMm: null },
+      { xMm: lo(b.minX), yMm: hi(b.maxY), radiusMm: null },
     ],
   };
 }

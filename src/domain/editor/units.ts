@@ -36,6 +36,15 @@ function trimZeros(s: string): string {
   return t === '-0' ? '0' : t;
 }
 
+/**
+ * The value in the unit that is NOT the display unit, for the small second line of a table cell:
+ * `2.000 in` under a mm value, `50.80 mm` under an inch value.
+ */
+export function otherUnitText(mm: number | undefined, units: DisplayUnits): string {
+  if (mm === undefined || !Number.isFinite(mm)) return '';
+  return units.length === 'mm' ? `${formatLength(mm, 'in', { decimals: 3, showUnit: false })} in` : formatLength(mm, 'mm', { decimals: 2 });
+}
+
 /** Both units at once, for the "parsed as" hint under a length input: `12.700 mm = 0.5000 in`. */
 export function bothUnits(mm: number): string {
   return `${formatLength(mm, 'mm', { decimals: 3 })} = ${formatLength(mm / 1, 'in', { decimals: 4, showUnit: false })} in`;

@@ -39,8 +39,10 @@ describe('vertex table operations', () => {
     expect(polygonOf(baseInput())).toBeNull();
     expect(plateSpecSchema.safeParse(own).success).toBe(true);
   });
-  it('starts from the rectangle round a bounding box', () => {
-    expect(rectangleAround({ minX: -10.00049, minY: -5, maxX: 10, maxY: 5 }, 3).vertices).toEqual([v(-10, -5), v(10, -5), v(10, 5), v(-10, 5)]);
+  it('starts from the rectangle round a bounding box, widened to whole millimetres', () => {
+    expect(rectangleAround({ minX: -160.797, minY: -155.403, maxX: 160.297, maxY: 162.5 }, 3).vertices).toEqual([v(-161, -156), v(161, -156), v(161, 163), v(-161, 163)]);
+    // exact millimetres stay as they are, float noise included
+    expect(rectangleAround({ minX: -10.0000000001, minY: -5, maxX: 10, maxY: 5.0000000001 }, 3).vertices).toEqual([v(-10, -5), v(10, -5), v(10, 5), v(-10, 5)]);
   });
 });
 

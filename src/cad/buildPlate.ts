@@ -23,7 +23,7 @@ import { arcSweepRad, pointInChain } from '../domain/exports/outlineMath';
 import { layoutIsDisjoint } from '../domain/checks';
 import { canonicalJson } from '../domain/canonicalJson';
 import { analyticVolumeMm3 } from './analyticVolume';
-import { describeKernelFailure, PlateBuildError } from './errors';
+import { describeKernelFailure, fatalKernelError, PlateBuildError } from './errors';
 import { offsetOutlineInward } from './offsetOutline';
 import { analyseLayout, type CircleColumn, type PocketColumn, type VoidColumn } from './plateModel';
 
@@ -634,6 +634,12 @@ export function buildPlate(oc: OpenCascadeInstance, profile: PlateProfile, opts:
       const built = strategy === 'direct' ? buildDirect(kit, profile, layout.columns, stage) : buildOneFace(kit, profile, layout.columns);
       shape = scope.release(built);
     } catch (e) {
+      // out of memory or a trap inside the wasm: no other strategy can succeed on this instance
+      const fatal = fatalKernelError(oc, e, 'building the plate');
+      if (fatal) {
+        scope.free();
+        throw fatal;
+      }
       const where = e instanceof PlateBuildError ? null : kit.feature;
       if (where && where !== 'outline') failedFeatures.add(where);
       rejected.push(`${strategy}: ${where ? `while making ${where}: ` : ''}${e instanceof PlateBuildError ? e.message : describeKernelFailure(oc, e)}`);
@@ -651,7 +657,13 @@ export function buildPlate(oc: OpenCascadeInstance, profile: PlateProfile, opts:
       verification = verifyPlate(oc, shape, profile, layout.columns, opts);
       stage('verify');
     } catch (e) {
-      shape.delete();
+      const fatal = fatalKernelError(oc, e, 'checking the built plate');
+      try {
+        shape.delete();
+      } catch {
+        /* the instance may be broken */
+      }
+      if (fatal) throw fatal;
       rejected.push(`${strategy}: verification failed (${describeKernelFailure(oc, e)})`);
       continue;
     }

@@ -3,10 +3,14 @@
  * `withKernel`, which runs one job at a time (the wasm kernel is single-threaded and its objects
  * must never be touched by two jobs at once). The wasm heap only grows and this build leaks a
  * little on every build, so after each job the heap is measured and, past a threshold, the
- * instance is dropped and a fresh one starts on the next job.
+ * instance is dropped and a fresh one starts on the next job. A job that breaks the instance (out
+ * of memory, a trap or abort inside the wasm) answers a PlateBuildError saying so
+ * (kernel-out-of-memory / kernel-crashed) and the instance is dropped at once, so the next job
+ * runs on a fresh one.
  */
 import { createRequire } from 'node:module';
 import opencascade, { type OpenCascadeInstance } from 'replicad-opencascadejs';
+import { fatalKernelError } from './errors';
 import { KERNEL_VERSION } from './version';
 
 export { KERNEL_VERSION as kernelVersion };
@@ -21,6 +25,10 @@ export interface KernelStatus {
   readonly jobs: number;
   readonly recycles: number;
   readonly recycleAboveBytes: number;
+  /** jobs that broke their instance (out of memory, crash); each one dropped it */
+  readonly fatalFailures: number;
+  /** the last such failure's message */
+  readonly lastFatal: string | null;
 }
 
 const DEFAULT_RECYCLE_ABOVE = 1024 * 1024 * 1024; // 1 GiB of wasm heap
@@ -30,6 +38,8 @@ let starting: Promise<OC> | null = null;
 let generation = 0;
 let jobs = 0;
 let recycles = 0;
+let fatalFailures = 0;
+let lastFatal: string | null = null;
 let recycleAboveBytes = Number(process.env.PLATEWRIGHT_KERNEL_RECYCLE_MB ?? 0) * 1024 * 1024 || DEFAULT_RECYCLE_ABOVE;
 let queue: Promise<unknown> = Promise.resolve();
 const recycleListeners = new Set<(old: OC) => void>();
@@ -101,6 +111,13 @@ export function withKernel<T>(job: (oc: OC) => T | Promise<T>): Promise<T> {
     const oc = await ensureKernel();
     try {
       return await job(oc);
+    } catch (e) {
+      const fatal = fatalKernelError(oc, e, 'making the plate files');
+      if (!fatal) throw e;
+      fatalFailures++;
+      lastFatal = fatal.message;
+      if (instance === oc) recycleKernel();
+      throw fatal;
     } finally {
       jobs++;
       if (instance === oc && heapBytesOf(oc) > recycleAboveBytes) recycleKernel();
@@ -118,5 +135,7 @@ export function kernelStatus(): KernelStatus {
     jobs,
     recycles,
     recycleAboveBytes,
+    fatalFailures,
+    lastFatal,
   };
 }

@@ -3,15 +3,19 @@
  * itself (streamed, so the page can show bytes / total), starts the kernel once, builds plates
  * (verified, see buildPlate) into display meshes sent back as transferable typed arrays, keeps
  * the last solid by profile so a STEP download does not rebuild, and restarts the kernel from
- * the downloaded bytes when the wasm heap passes a threshold.
+ * the downloaded bytes when the wasm heap passes a threshold. A build or STEP export that breaks
+ * the instance (out of memory, a trap or abort inside the wasm) answers a clear failure
+ * (kernel-out-of-memory / kernel-crashed); the instance and its cached solid are dropped at once
+ * and the next call starts a fresh kernel from the bytes already downloaded.
  */
 import * as Comlink from 'comlink';
 import opencascade, { type OpenCascadeInstance } from 'replicad-opencascadejs';
 import wasmUrl from 'replicad-opencascadejs/wasm?url';
 import type { PlateProfile } from '../domain/profileTypes';
-import { PlateCache, type PlateVerification, type BuildStrategy } from './buildPlate';
-import { isPlateBuildError } from './errors';
-import { meshTransferables, plateMesh, type PlateMesh } from './mesh';
+import { PlateCache, profileKey, type PlateVerification, type BuildStrategy } from './buildPlate';
+import { fatalKernelError, isPlateBuildError } from './errors';
+import { exhaustKernelHeap } from './heapLimit';
+import { cloneMesh, meshTransferables, plateMesh, type PlateMesh } from './mesh';
 import { plateStep, type StepMeta } from './step';
 import { KERNEL_VERSION } from './version';
 
@@ -46,7 +50,11 @@ let wasmBytes: Uint8Array | null = null;
 let oc: OpenCascadeInstance | null = null;
 let starting: Promise<OpenCascadeInstance> | null = null;
 let restarts = 0;
+let fatalFailures = 0;
+let lastFatal: string | null = null;
 const cache = new PlateCache();
+/** the display mesh of the cached solid: the same profile is meshed once */
+let lastMesh: { oc: OpenCascadeInstance; key: string; mesh: PlateMesh } | null = null;
 
 async function download(onProgress?: (p: KernelProgress) => void): Promise<Uint8Array> {
   if (wasmBytes) return wasmBytes;
@@ -105,12 +113,26 @@ function heapBytes(k: OpenCascadeInstance): number {
 
 /** After a job: past the threshold, drop the instance and its cached solid; the next job restarts it. */
 function maybeRecycle(onProgress?: (p: KernelProgress) => void) {
-  if (oc && heapBytes(oc) > RECYCLE_ABOVE_BYTES) {
-    cache.clear();
-    oc = null;
-    restarts++;
-    onProgress?.({ phase: 'restarting' });
-  }
+  if (oc && heapBytes(oc) > RECYCLE_ABOVE_BYTES) discard(onProgress);
+}
+
+/** Drops the instance and everything made with it; the next job starts a fresh one. */
+function discard(onProgress?: (p: KernelProgress) => void) {
+  cache.clear();
+  lastMesh = null;
+  oc = null;
+  restarts++;
+  onProgress?.({ phase: 'restarting' });
+}
+
+/** When `e` broke the instance `k`: discard it and give the user-facing error, else null. */
+function fatal(k: OpenCascadeInstance, e: unknown, during: string) {
+  const f = fatalKernelError(k, e, during);
+  if (!f) return null;
+  fatalFailures++;
+  lastFatal = f.message;
+  if (oc === k) discard();
+  return f;
 }
 
 function failure(e: unknown): KernelBuildFailure {
@@ -132,7 +154,15 @@ const api = {
       const t0 = performance.now();
       const { plate, hit } = cache.get(k, profile);
       const t1 = performance.now();
-      const mesh = plateMesh(k, plate.shape);
+      const key = profileKey(profile);
+      let mesh: PlateMesh;
+      if (hit && lastMesh && lastMesh.oc === k && lastMesh.key === key) {
+        mesh = cloneMesh(lastMesh.mesh);
+      } else {
+        const made = plateMesh(k, plate.shape);
+        lastMesh = { oc: k, key, mesh: made };
+        mesh = cloneMesh(made);
+      }
       const t2 = performance.now();
       const result: KernelBuildResult = {
         ok: true,
@@ -146,7 +176,7 @@ const api = {
       };
       return Comlink.transfer(result, meshTransferables(mesh));
     } catch (e) {
-      return failure(e);
+      return failure(fatal(k, e, 'building the plate') ?? e);
     } finally {
       maybeRecycle();
     }
@@ -159,13 +189,33 @@ const api = {
       const { plate } = cache.get(k, profile);
       const bytes = plateStep(k, plate.shape, meta);
       return Comlink.transfer(bytes, [bytes.buffer as ArrayBuffer]);
+    } catch (e) {
+      const f = fatal(k, e, 'making the STEP file');
+      if (f) throw new Error(f.message);
+      throw e;
     } finally {
       maybeRecycle();
     }
   },
 
-  async status(): Promise<{ started: boolean; heapBytes: number | null; restarts: number; kernelVersion: string }> {
-    return { started: oc !== null, heapBytes: oc ? heapBytes(oc) : null, restarts, kernelVersion: KERNEL_VERSION };
+  async status(): Promise<{
+    started: boolean;
+    heapBytes: number | null;
+    restarts: number;
+    kernelVersion: string;
+    fatalFailures: number;
+    lastFatal: string | null;
+  }> {
+    return { started: oc !== null, heapBytes: oc ? heapBytes(oc) : null, restarts, kernelVersion: KERNEL_VERSION, fatalFailures, lastFatal };
+  },
+
+  /**
+   * Test hook: caps the running kernel's heap where it is and fills it, so the next build runs
+   * out of memory the way a long-lived page's kernel would. The failure then recovers as any other.
+   */
+  async exhaustHeapForTest(): Promise<{ heapBytes: number; takenBytes: number }> {
+    const k = await startKernel();
+    return exhaustKernelHeap(k);
   },
 };
 

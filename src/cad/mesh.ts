@@ -52,6 +52,17 @@ export function plateMesh(
   return { positions, normals, indices, edges, faceGroups };
 }
 
+/** A copy with its own buffers (the cached mesh stays usable after the copy is transferred). */
+export function cloneMesh(m: PlateMesh): PlateMesh {
+  return {
+    positions: m.positions.slice(),
+    normals: m.normals.slice(),
+    indices: m.indices.slice(),
+    edges: m.edges.slice(),
+    faceGroups: m.faceGroups.slice(),
+  };
+}
+
 /** The buffers to list as transferables when posting a mesh from a worker. */
 export function meshTransferables(m: PlateMesh): ArrayBuffer[] {
   return [m.positions.buffer, m.normals.buffer, m.indices.buffer, m.edges.buffer, m.faceGroups.buffer] as ArrayBuffer[];

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { json, jsonError } from './http';
+import { isFatalKernelError, isPlateBuildError } from '../cad/errors';
 
 /** A failure the caller can act on, with its HTTP status. Thrown by repositories, answered by `handle`. */
 export class AppError extends Error {
@@ -51,6 +52,13 @@ export async function handle(fn: () => Promise<Response>): Promise<Response> {
         }
       }
       return jsonError(400, 'invalid_input', 'The request is not valid: ' + parts.slice(0, 10).join('; '), fields);
+    }
+    // the CAD kernel: a plate it cannot build answers what to change; a kernel that broke (out of
+    // memory, crash) has been restarted, so the request can simply be repeated
+    if (isPlateBuildError(e)) {
+      return isFatalKernelError(e)
+        ? jsonError(503, 'kernel_unavailable', e.message)
+        : json({ error: { code: 'plate_not_buildable', message: e.message, featureIds: [...e.featureIds] } }, 422);
     }
     if (isDatabaseDown(e)) return jsonError(503, 'database_unavailable', 'The database is not reachable right now; nothing was changed. Try again in a moment.');
     console.error('[platewright] unexpected error:', e instanceof Error ? e.message : String(e));

@@ -79,4 +79,73 @@ describe('kernel check page in Chromium', () => {
     await page.screenshot({ path: '.test-artifacts/kernel-check.png', fullPage: true });
     await context.close();
   });
+
+  it('the worker kernel run out of memory answers a clear failure, restarts, and the next build succeeds and verifies', async () => {
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    let workerUrl: string | null = null;
+    page.on('request', (r) => {
+      if (/kernel\.worker[^/]*\.js(\?|$)/.test(r.url())) workerUrl ??= r.url();
+    });
+    await page.goto(base + '/kernel');
+    await page.waitForSelector('#mesh-count[data-triangles]', { timeout: 90_000 });
+    expect(workerUrl).not.toBeNull();
+    const profile = JSON.parse((await page.locator('#kernel-check').getAttribute('data-profile'))!) as ReturnType<typeof plateProfile>;
+    // a different plate than the one cached in the worker (1 mm thicker), so the build must allocate
+    const thicker = { ...profile, thicknessMm: profile.thicknessMm + 1 };
+
+    // a second worker from the app's own worker bundle, spoken to in comlink's message format
+    const result = await page.evaluate(
+      async ({ url, first, second }) => {
+        const w = new Worker(url, { type: 'module' });
+        let n = 0;
+        const call = (name: string, ...args: unknown[]) =>
+          new Promise<unknown>((resolve, reject) => {
+            const id = `t${++n}`;
+            const onMessage = (ev: MessageEvent) => {
+              if (ev.data?.id !== id) return;
+              w.removeEventListener('message', onMessage);
+              if (ev.data.type === 'HANDLER' && ev.data.name === 'throw') reject(new Error(ev.data.value?.value?.message ?? 'worker error'));
+              else resolve(ev.data.value);
+            };
+            w.addEventListener('message', onMessage);
+            w.postMessage({ id, type: 'APPLY', path: [name], argumentList: args.map((value) => ({ type: 'RAW', value })) });
+          });
+        type Build = { ok: boolean; code?: string; message?: string; mesh?: { indices: Uint32Array }; verification?: { volumeMm3: number; valid: boolean } };
+        await call('init');
+        const good = (await call('build', first)) as Build;
+        const exhausted = (await call('exhaustHeapForTest')) as { heapBytes: number };
+        const failed = (await call('build', second)) as Build;
+        const afterFailure = (await call('status')) as { started: boolean; fatalFailures: number; restarts: number };
+        const recovered = (await call('build', second)) as Build;
+        const afterRecovery = (await call('status')) as { started: boolean; fatalFailures: number; restarts: number };
+        w.terminate();
+        const summary = (b: Build) => ({
+          ok: b.ok,
+          code: b.code ?? null,
+          message: b.message ?? null,
+          triangles: b.mesh ? b.mesh.indices.length / 3 : 0,
+          volumeMm3: b.verification?.volumeMm3 ?? null,
+          valid: b.verification?.valid ?? null,
+        });
+        return { good: summary(good), heapBytes: exhausted.heapBytes, failed: summary(failed), afterFailure, recovered: summary(recovered), afterRecovery };
+      },
+      { url: workerUrl!, first: profile, second: thicker },
+    );
+    expect(result.good.ok).toBe(true);
+    expect(result.heapBytes).toBeGreaterThan(0);
+    expect(result.failed.ok).toBe(false);
+    expect(result.failed.code).toBe('kernel-out-of-memory');
+    expect(result.failed.message).toMatch(/^The CAD kernel ran out of memory while building the plate, so nothing was shown or exported/);
+    expect(result.failed.message).toMatch(/try again/);
+    expect(result.afterFailure).toMatchObject({ started: false, fatalFailures: 1, restarts: 1 });
+    // the fresh kernel builds the thicker plate: valid, its volume the 2D computation's (checked here in Node)
+    expect(result.recovered.ok).toBe(true);
+    expect(result.recovered.valid).toBe(true);
+    expect(result.recovered.triangles).toBeGreaterThan(1000);
+    const analytic = analyticVolumeMm3(thicker);
+    expect(Math.abs(result.recovered.volumeMm3! - analytic) / analytic).toBeLessThan(1e-9);
+    expect(result.afterRecovery).toMatchObject({ started: true, fatalFailures: 1 });
+    await context.close();
+  });
 });

@@ -76,7 +76,7 @@ async function run(name: string, opts: autocannon.Options & { warm?: boolean }):
   const f: Figures = {
     name,
     requests: r.requests.total,
-    queriesPerRequest: +((q1 - q0 - 1) / Math.max(1, r.requests.total)).toFixed(2),
+    queriesPerRequest: +((q1 - q0 - 1) / Math.max(1, r.requests.sent ?? r.requests.total)).toFixed(2), // sent: requests still in flight at the end queried too
     throughputPerS: Math.round(r.requests.average),
     p50Ms: r.latency.p50,
     p99Ms: r.latency.p99,

@@ -140,6 +140,42 @@ describe('measurements in Chromium', () => {
     expect(await saved.innerText()).toMatch(/Saved as draft revision 2/);
     await page.screenshot({ path: `${SHOTS}/measurements-3-applied.png`, fullPage: true });
 
+    // the engineer's view: the new draft in the editor, its transmission holes with their source
+    await Promise.all([page.waitForURL(/\/plates\/\d+\/edit\?rev=\d+$/), saved.getByRole('link', { name: 'Open it in the editor' }).click()]);
+    // the cautions come first on the first open of a plate
+    const safety = page.getByTestId('safety-panel');
+    await safety.waitFor({ timeout: 30_000 });
+    expect(await safety.innerText()).toMatch(/dial indicator/);
+    await safety.getByRole('button', { name: /I understand/ }).click();
+    await page.getByTestId('face-transmissionFace').click();
+    const holeTable = page.getByTestId('hole-table-transmissionFace');
+    await holeTable.waitFor({ timeout: 30_000 });
+    await expect.poll(() => holeTable.locator('tbody tr[data-row]').count()).toBe(8);
+    const source = page.getByTestId('measured-source-transmissionFace');
+    await source.waitFor();
+    const sourceText = await source.innerText();
+    expect(sourceText).toMatch(/MEASURED\s*8 holes fitted from upload \d+ · 2 flagged — check before release/i);
+    // invented face: bolt circle Ø240 about a bore 0.403 mm off (TIR 0.806 mm)
+    const pl = /Bolt circle TB: Ø 2(?:39\.99\d|40\.00\d) mm through 8 measured holes · rms 0\.\d{3} mm · angular rms \d\.\d{3}° · centre (\d\.\d{3}) mm from the bore axis \(TIR (\d\.\d{3}) mm\), bore Ø 1(?:09\.99\d|10\.00\d) mm/.exec(sourceText);
+    expect(pl, sourceText).not.toBeNull();
+    expect(Math.abs(Number(pl![1]) - Math.hypot(0.35, 0.2))).toBeLessThan(0.01);
+    expect(Number(pl![2])).toBeCloseTo(2 * Number(pl![1]), 2);
+    const measuredRows = source.locator('tbody tr');
+    expect(await measuredRows.count()).toBe(8);
+    for (let i = 1; i <= 8; i++) {
+      expect(await source.locator(`tr[data-measured="T${i}"]`).innerText()).toMatch(new RegExp(`^T${i}\\s+1[01]\\.\\d{3}\\s+0\\.\\d{3}\\s+0\\.\\d{3}\\s+\\d+ · \\d+°\\s+[+−]?\\d\\.\\d{3} [+−]?\\d\\.\\d{3}°\\s+ISO 273 medium M10`));
+    }
+    expect(sourceText.match(/⚠ [^\n]*\boval\b/g)).toHaveLength(1);
+    expect(sourceText.match(/⚠ [^\n]*\bdented\b/g)).toHaveLength(1);
+    expect(sourceText.match(/✓ good fit/g)).toHaveLength(6);
+    // hovering a hole in the table marks its measured row
+    await holeTable.locator('tr[data-row="T3"]').hover();
+    await expect.poll(() => source.locator('tr[data-measured="T3"]').getAttribute('class')).toMatch(/bg-brass/);
+    await source.scrollIntoViewIfNeeded();
+    await page.screenshot({ path: `${SHOTS}/measurements-4-editor-source.png`, fullPage: true });
+    await page.goBack();
+    await page.waitForURL(/\/measurements$/);
+
     // later: open the stored upload again (the worker reads it from the server)
     await page.reload();
     await page.getByTestId('uploads-table').getByRole('button', { name: 'Open' }).click();
@@ -164,11 +200,20 @@ describe('measurements in Chromium', () => {
     expect(tf.patterns[0].fitted.fromUploadId).toBe(String(upload!.id));
     expect(Math.hypot(tf.patterns[0].fitted.centerX, tf.patterns[0].fitted.centerY)).toBeCloseTo(Math.hypot(0.35, 0.2), 2);
     expect(tf.holes.map((h: { id: string }) => h.id)).toEqual(['T1', 'T2', 'T3', 'T4', 'T5', 'T6', 'T7', 'T8']);
+    expect(tf.patterns[0].fitted.holeCount).toBe(8);
+    // invented bore offset (0.35, −0.2): the fitted offset within 0.01 mm as above, TIR = 2 × offset
+    expect(Math.abs(tf.patterns[0].fitted.bore.offsetMm - Math.hypot(0.35, 0.2))).toBeLessThan(0.01);
+    expect(tf.patterns[0].fitted.bore.tirMm).toBeCloseTo(2 * tf.patterns[0].fitted.bore.offsetMm, 3);
     for (const h of tf.holes) {
       expect(h.patternId).toBe('TB');
+      expect(h.fitted.fromUploadId).toBe(String(upload!.id));
+      expect(h.fitted.points).toBeGreaterThan(12);
+      expect(Math.abs(h.fitted.diameterMm - 11)).toBeLessThan(1);
       expect(h.note).toMatch(new RegExp(`^fitted from upload ${upload!.id} \\(bell-face-scan\\.ply\\): Ø1[01]\\.\\d{3} mm, rms`));
     }
     expect(tf.holes.filter((h: { note: string }) => /flagged: .*oval/.test(h.note))).toHaveLength(1);
     expect(tf.holes.filter((h: { note: string }) => /flagged: .*dented/.test(h.note))).toHaveLength(1);
+    expect(tf.holes.filter((h: { fitted: { flags: string[] } }) => h.fitted.flags.includes('oval'))).toHaveLength(1);
+    expect(tf.holes.filter((h: { fitted: { flags: string[] } }) => h.fitted.flags.includes('dent'))).toHaveLength(1);
   });
 });

@@ -18,7 +18,7 @@ import { loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { buildPlate, constructPlateSolidUnverified } from '../src/cad/buildPlate';
 import { heapBytesOf, startKernelInstance } from '../src/cad/kernel.node.ts';
-import { plateMesh } from '../src/cad/mesh';
+import { DISPLAY_ANGULAR_TOLERANCE_RAD, DISPLAY_TOLERANCE_MM, displayToleranceMm, plateMesh, plateSizeMm, sizeOfBox } from '../src/cad/mesh';
 import { plateStep } from '../src/cad/step';
 import { plateDxf } from '../src/domain/exports/dxf';
 import { analyticVolumeMm3 } from '../src/cad/analyticVolume';
@@ -117,26 +117,49 @@ async function main() {
   }
   console.log(`one-face fallback construction: median ${stats(oneFace).median.toFixed(2)} ms`);
 
-  // ---- STEP, mesh (fresh solid each time, the mesh is cached on the shape), DXF
+  // ---- STEP, display mesh (a fresh solid each time: the kernel triangulates on every mesh call),
+  // DXF. The mesh is made as the worker makes it: chordal deflection from the plate's size; for
+  // comparison the fixed finest display deflection, and the box-only size lookup on its own.
   const step: number[] = [];
   const mesh: number[] = [];
+  const meshFine: number[] = [];
+  const sizeLookup: number[] = [];
+  let meshTriangles = 0;
+  let meshFineTriangles = 0;
+  let meshTolerance = 0;
   for (let i = 0; i < 13; i++) {
     const p = buildPlate(oc, plate);
     const ts = time(() => plateStep(oc, p.shape, { partNumber: 'PW-0042', revision: 3 }));
     const p2 = buildPlate(oc, plate);
-    const tm = time(() => plateMesh(oc, p2.shape));
+    const sizeMm = sizeOfBox(p2.verification.bbox);
+    meshTolerance = displayToleranceMm(sizeMm);
+    let tris = 0;
+    const tm = time(() => (tris = plateMesh(oc, p2.shape, { sizeMm }).indices.length / 3));
+    const p3 = buildPlate(oc, plate);
+    let fineTris = 0;
+    const tf = time(() => (fineTris = plateMesh(oc, p3.shape, { toleranceMm: DISPLAY_TOLERANCE_MM }).indices.length / 3));
+    const tz = time(() => plateSizeMm(oc, p3.shape));
     if (i >= 3) {
       step.push(ts);
       mesh.push(tm);
+      meshFine.push(tf);
+      sizeLookup.push(tz);
     }
+    meshTriangles = tris;
+    meshFineTriangles = fineTris;
     p.dispose();
     p2.dispose();
+    p3.dispose();
   }
   for (let i = 0; i < 20; i++) plateDxf(plate, { partNumber: 'PW-0042', revision: 3 });
   const dxf: number[] = [];
   for (let i = 0; i < 30; i++) dxf.push(time(() => plateDxf(plate, { partNumber: 'PW-0042', revision: 3 })));
   console.log(
     `STEP ${stats(step).median.toFixed(2)} ms, mesh ${stats(mesh).median.toFixed(2)} ms, DXF ${stats(dxf).median.toFixed(2)} ms (medians)`,
+  );
+  console.log(
+    `display mesh at ${meshTolerance.toFixed(3)} mm / ${DISPLAY_ANGULAR_TOLERANCE_RAD} rad: ${meshTriangles} triangles, ${stats(mesh).median.toFixed(2)} ms; ` +
+      `at the fixed ${DISPLAY_TOLERANCE_MM} mm: ${meshFineTriangles} triangles, ${stats(meshFine).median.toFixed(2)} ms; box-only size lookup ${stats(sizeLookup).median.toFixed(2)} ms`,
   );
 
   // ---- heap growth: 200 verified builds in this instance
@@ -167,6 +190,9 @@ async function main() {
     ratio: nativeBuildMsMedian ? r4(b.median / nativeBuildMsMedian) : null,
     stepMs: r2(stats(step).median),
     meshMs: r2(stats(mesh).median),
+    meshTriangles,
+    meshToleranceMm: r4(meshTolerance),
+    meshFixedFineMs: r2(stats(meshFine).median),
     dxfMs: r2(stats(dxf).median),
     heapGrowthMbPer1000: r2(heapGrowthMbPer1000),
     buildCpuMsMean: r2(buildCpuMsMean),

@@ -15,7 +15,7 @@ import type { PlateProfile } from '../domain/profileTypes';
 import { PlateCache, profileKey, type PlateVerification, type BuildStrategy } from './buildPlate';
 import { fatalKernelError, isPlateBuildError } from './errors';
 import { exhaustKernelHeap } from './heapLimit';
-import { cloneMesh, meshTransferables, plateMesh, type PlateMesh } from './mesh';
+import { cloneMesh, meshTransferables, plateMesh, sizeOfBox, type PlateMesh } from './mesh';
 import { plateStep, type StepMeta } from './step';
 import { KERNEL_VERSION } from './version';
 
@@ -159,7 +159,7 @@ const api = {
       if (hit && lastMesh && lastMesh.oc === k && lastMesh.key === key) {
         mesh = cloneMesh(lastMesh.mesh);
       } else {
-        const made = plateMesh(k, plate.shape);
+        const made = plateMesh(k, plate.shape, { sizeMm: sizeOfBox(plate.verification.bbox) });
         lastMesh = { oc: k, key, mesh: made };
         mesh = cloneMesh(made);
       }

@@ -1,7 +1,12 @@
 /**
  * Display mesh of a solid as typed arrays (ready to be transferred from a worker): triangle
- * positions, normals and indices, and the B-rep edges as line segments. Display tolerances,
- * not machining ones: 0.05 mm chordal, 0.3 rad angular.
+ * positions, normals and indices, and the B-rep edges as line segments — the kernel's own
+ * triangulation of the verified solid. Display tolerances, not machining ones:
+ *  - angular 0.3 rad: every hole and counterbore wall has at least 21 sides, so holes stay round
+ *    at any zoom a shop screen uses;
+ *  - chordal relative to the plate: its larger side / 1600 (0.2 mm on a 320 mm plate, about half a
+ *    pixel when the whole plate fills a 1000-pixel view), never finer than 0.05 mm nor coarser
+ *    than 0.5 mm. Finer chords only add triangles to the large outline arcs, which nobody can see.
  */
 import type { OpenCascadeInstance, TopoDS_Shape } from 'replicad-opencascadejs';
 
@@ -18,8 +23,34 @@ export interface PlateMesh {
   readonly faceGroups: Int32Array;
 }
 
+/** the finest chordal deflection used for display (small plates) */
 export const DISPLAY_TOLERANCE_MM = 0.05;
+export const DISPLAY_TOLERANCE_MAX_MM = 0.5;
+/** chordal deflection = larger plate side / this */
+export const DISPLAY_TOLERANCE_DIVISOR = 1600;
 export const DISPLAY_ANGULAR_TOLERANCE_RAD = 0.3;
+
+/** The larger side of a verified plate's bounding box. */
+export function sizeOfBox(b: { minX: number; minY: number; maxX: number; maxY: number }): number {
+  return Math.max(b.maxX - b.minX, b.maxY - b.minY);
+}
+
+/** The display chordal deflection for a plate whose larger side is `sizeMm`. */
+export function displayToleranceMm(sizeMm: number): number {
+  if (!(sizeMm > 0)) return DISPLAY_TOLERANCE_MM;
+  return Math.min(DISPLAY_TOLERANCE_MAX_MM, Math.max(DISPLAY_TOLERANCE_MM, sizeMm / DISPLAY_TOLERANCE_DIVISOR));
+}
+
+/** The larger of the shape's X and Y extents (a quick box from the geometry, no triangulation). */
+export function plateSizeMm(oc: OpenCascadeInstance, shape: TopoDS_Shape): number {
+  const box = new oc.Bnd_Box();
+  try {
+    oc.BRepBndLib.Add(shape, box, false);
+    return Math.max(box.GetXMax() - box.GetXMin(), box.GetYMax() - box.GetYMin());
+  } finally {
+    box.delete();
+  }
+}
 
 function copyOut<T extends Float32Array | Uint32Array | Int32Array>(
   View: { new (b: ArrayBufferLike): T; BYTES_PER_ELEMENT: number },
@@ -35,9 +66,9 @@ function copyOut<T extends Float32Array | Uint32Array | Int32Array>(
 export function plateMesh(
   oc: OpenCascadeInstance,
   shape: TopoDS_Shape,
-  opts: { toleranceMm?: number; angularToleranceRad?: number } = {},
+  opts: { toleranceMm?: number; angularToleranceRad?: number; sizeMm?: number } = {},
 ): PlateMesh {
-  const tol = opts.toleranceMm ?? DISPLAY_TOLERANCE_MM;
+  const tol = opts.toleranceMm ?? displayToleranceMm(opts.sizeMm ?? plateSizeMm(oc, shape));
   const ang = opts.angularToleranceRad ?? DISPLAY_ANGULAR_TOLERANCE_RAD;
   const raw = oc.ReplicadMeshExtractor.extract(shape, tol, ang, false);
   const buf = oc.wasmMemory.buffer;

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { readFileSync } from 'node:fs';
+import { mkdirSync, readFileSync } from 'node:fs';
 import type { Browser } from 'playwright-core';
 import { launchBrowser } from '../support/browser';
 import { testAppPort } from '../support/server';
@@ -146,6 +146,43 @@ describe('kernel check page in Chromium', () => {
     const analytic = analyticVolumeMm3(thicker);
     expect(Math.abs(result.recovered.volumeMm3! - analytic) / analytic).toBeLessThan(1e-9);
     expect(result.afterRecovery).toMatchObject({ started: true, fatalFailures: 1 });
+    await context.close();
+  });
+
+  it("the editor's 3D view shows the kernel's own mesh of the plate (screenshots, whole plate and zoomed in)", async () => {
+    mkdirSync('.test-artifacts/screens', { recursive: true });
+    const context = await browser.newContext({ viewport: { width: 1920, height: 1080 } });
+    const page = await context.newPage();
+    const headers = { origin: base };
+    const signIn = await page.request.post(`${base}/api/auth/sign-in`, { data: { email: 'designer@example.test', password: process.env.DEMO_PASSWORD ?? 'platewright-demo' }, headers });
+    expect(signIn.status()).toBe(200);
+    const project = await page.request.post(`${base}/api/projects`, { data: { name: 'Kernel view check' }, headers });
+    expect(project.status()).toBe(201);
+    const plate = await page.request.post(`${base}/api/projects/${(await project.json()).project.id}/plates`, { data: { title: 'Kernel view' }, headers });
+    expect(plate.status()).toBe(201);
+    const plateId = (await plate.json()).plate.id;
+    const spec = JSON.parse(readFileSync('templates/plates/demo.json', 'utf8'));
+    const rev = await page.request.post(`${base}/api/plates/${plateId}/revisions`, { data: { spec, message: 'view check', parentRevisionId: null }, headers });
+    expect(rev.status()).toBe(201);
+
+    await page.goto(`${base}/plates/${plateId}/edit`);
+    await page.getByRole('button', { name: /I understand/ }).click();
+    await page.getByRole('tab', { name: '3D' }).click();
+    const view = page.locator('[data-testid="plate-3d"][data-source="kernel"]');
+    await view.waitFor({ timeout: 90_000 });
+    await expect(view.innerText()).resolves.toMatch(/CAD kernel solid, built in \d+ ms/);
+    await page.waitForTimeout(300);
+    await page.screenshot({ path: '.test-artifacts/screens/kernel-3d-1920.png' });
+    // zoom in towards the centre bore and the holes around it
+    const box = (await view.boundingBox())!;
+    await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2);
+    for (let i = 0; i < 3; i++) {
+      await page.mouse.wheel(0, -300);
+      await page.waitForTimeout(80);
+    }
+    await page.waitForTimeout(300);
+    await page.screenshot({ path: '.test-artifacts/screens/kernel-3d-zoom-1920.png' });
+    await expect(view.getAttribute('data-source')).resolves.toBe('kernel');
     await context.close();
   });
 });

@@ -8,12 +8,22 @@
  *
  *   npm run bench:measure
  */
+import { readFileSync } from 'node:fs';
 import { MeasureFileParser } from '../src/domain/measure/formats';
 import { fitCircle } from '../src/domain/fit/circle';
 import { fitPlaneRansac } from '../src/domain/fit/ransacPlane';
 import { fitHoleFromIndices } from '../src/domain/measure/holes';
 import { MeasureSession } from '../src/domain/measure/session';
 import { BELL_FACE, makeFace, seeded, writePlyBinary } from '../tests/fixtures/measure/syntheticFace';
+
+/** the machine's 1-minute load average, printed with the figures (they mean little on a busy machine) */
+function loadavg(): number | null {
+  try {
+    return Number(readFileSync('/proc/loadavg', 'utf8').split(' ')[0]);
+  } catch {
+    return null;
+  }
+}
 
 function median(xs: number[]): number {
   const s = [...xs].sort((a, b) => a - b);
@@ -40,6 +50,8 @@ const face = makeFace({ ...BELL_FACE, spacingMm: spacing });
 const count = face.points.length / 3;
 const ply = writePlyBinary(face.points);
 const headerEnd = new TextDecoder().decode(ply.subarray(0, 1000)).indexOf('end_header\n') + 'end_header\n'.length;
+const load1AtStart = loadavg();
+console.log(`load average at start (1 min): ${load1AtStart ?? 'unknown'}`);
 console.log(`binary PLY: ${count.toLocaleString('en-US')} points, ${(ply.length / 1e6).toFixed(1)} MB (float32 x y z + 1 byte)`);
 
 const CHUNK = 1 << 20;
@@ -96,3 +108,26 @@ const fitAll = time(21, 5, () => fitHoleFromIndices(uv, all, { rim: 'all' }));
 line('hole fit, all 50 000 points  [target < 50 ms]', fitAll.ms, sumBase, `   Ø ${fitAll.last.diameterMm.toFixed(4)}`);
 const fitEdge = time(21, 5, () => fitHoleFromIndices(uv, all, { rim: 'edge' }));
 line('hole fit, rim of 50 000 points (edge)', fitEdge.ms, sumBase, `   rim ${fitEdge.last.n}`);
+
+// ── one JSON line last: figures, ratios to their baselines, targets and the machine's load ────
+const r2 = (x: number) => Math.round(x * 100) / 100;
+console.log(
+  JSON.stringify({
+    bench: 'measure',
+    points: count,
+    parseMs: r2(parsed.ms),
+    planeMs: r2(plane.ms),
+    parsePlusPlaneMs: r2(both.ms),
+    parsePlusPlaneTargetMs: 2000,
+    parsePlusPlaneOk: both.ms < 2000,
+    parseVsDecodeBaseline: r2(parsed.ms / base),
+    holeFindingMs: r2(holes.ms),
+    holeFit50kMs: r2(fitAll.ms),
+    holeFit50kTargetMs: 50,
+    holeFit50kOk: fitAll.ms < 50,
+    holeFitVsCircleBaseline: r2(fitAll.ms / sumBase),
+    holeFitEdgeMs: r2(fitEdge.ms),
+    load1AtStart,
+    load1AtEnd: loadavg(),
+  }),
+);

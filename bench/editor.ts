@@ -12,6 +12,8 @@
  *    time (solid + display mesh in the worker) and editor time (round trip, three.js geometry,
  *    the rest);
  *  - the JavaScript the editor page loads, gzip, without wasm.
+ * Run it on a production build (`npm start`'s dist/, or NODE_ENV=production astro build with
+ * PLATEWRIGHT_DIST): a build made with NODE_ENV=test ships development React and is flagged.
  * The last line printed is one JSON object with the figures.
  */
 import { gzipSync } from 'node:zlib';
@@ -174,6 +176,9 @@ async function main(): Promise<void> {
     }
 
     const appScripts = scripts.filter((s) => s.url.startsWith(base!) && !s.url.endsWith('.wasm'));
+    // a build made with NODE_ENV other than production (e.g. the test runs' own) ships React's
+    // development runtime, several times slower per render: its figures say nothing about the app
+    const developmentReact = appScripts.some((s) => /jsx-dev-runtime/.test(s.url) || s.bytes.includes('react-dom.development'));
     const firstLoad = appScripts.slice(0, firstLoadCount);
     const gzipFirst = firstLoad.reduce((a, s) => a + gzipSync(s.bytes, { level: 9 }).length, 0);
     const gzip = appScripts.reduce((a, s) => a + gzipSync(s.bytes, { level: 9 }).length, 0);
@@ -199,6 +204,7 @@ async function main(): Promise<void> {
         mesh3dToKernelWork: Number((stats(meshMs).median / Math.max(1, stats(workerMs).median)).toFixed(2)),
       },
       loadAvg1m: Number(readFileSync('/proc/loadavg', 'utf8').split(' ')[0]),
+      developmentReact,
       editorPageJs: { files: appScripts.length, rawKB: Number((raw / 1024).toFixed(1)), gzipKB: Number((gzip / 1024).toFixed(1)), firstLoadGzipKB: Number((gzipFirst / 1024).toFixed(1)) },
       targets: { keystrokeToDrawingMs: 50, liveCheckMs: 16, keystrokeTo3dMs: 400, gzipKB: 350 },
     };
@@ -208,6 +214,7 @@ async function main(): Promise<void> {
     console.log(`3D split (median ms): kernel build ${result.keystrokeTo3dSplitMs.kernelBuild}, kernel mesh ${result.keystrokeTo3dSplitMs.kernelMesh}, round trip beyond them ${result.keystrokeTo3dSplitMs.workerRoundTripBeyondBuild}, three.js geometry ${result.keystrokeTo3dSplitMs.geometryOnMainThread}; load ${result.loadAvg1m}`);
     console.log(`keystroke → 3D mesh (warm, no pause: built as soon as the worker is free): median ${result.keystrokeTo3dMeshMs.median} ms, p90 ${result.keystrokeTo3dMeshMs.p90} ms (target < 400); worker build + mesh ${result.kernelBuildAndMeshInWorkerMs.median} ms`);
     console.log(`editor page JS without wasm: ${result.editorPageJs.gzipKB} kB gzip with the 3D view and kernel worker, ${result.editorPageJs.firstLoadGzipKB} kB on first load (target < 350)`);
+    if (developmentReact) console.log('WARNING: this build ships development React (built with NODE_ENV ≠ production); build with NODE_ENV=production for figures that mean anything');
     console.log(JSON.stringify(result));
   } finally {
     await browser.close();

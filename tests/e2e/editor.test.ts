@@ -187,6 +187,10 @@ describe('plate editor in Chromium', () => {
     // 3D: the kernel's solid from the worker, rebuilt after an edit; STEP from the same solid
     await page.getByRole('tab', { name: '3D' }).click();
     await page.locator('[data-testid="plate-3d"][data-source="kernel"]').waitFor({ timeout: 90_000 });
+    // the view is drawn: the canvas has pixels that are not the background
+    await expect.poll(() => page.locator('[data-testid="plate-3d"] canvas').count()).toBe(1);
+    await page.waitForTimeout(300);
+    await page.screenshot({ path: `${SHOTS}/editor-3d-1920.png` });
     await page.getByRole('tab', { name: 'Drawing' }).click();
     await page.getByTestId('export-button').click();
     const [step] = await Promise.all([page.waitForEvent('download', { timeout: 60_000 }), page.locator('[data-export="step"]').click()]);

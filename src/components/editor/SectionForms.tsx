@@ -176,7 +176,7 @@ export function PlateSection({ doc, units, commit, issues, readOnly }: { doc: Pl
           <input {...form.register('margin')} className={inputCls(!!e.margin)} />
         </Field>
       )}
-      <Field label={`Outline: corner radius (${units.length})`} error={e.corner?.message} hint={<LengthFieldHint text={w.corner} units={units} />}>
+      <Field label={`Outline: ${auto ? 'corner radius' : 'common corner radius'} (${units.length})`} error={e.corner?.message ?? issues.get('outline.cornerRadiusMm')} hint={<LengthFieldHint text={w.corner} units={units} />}>
         <input {...form.register('corner')} className={inputCls(!!e.corner)} />
       </Field>
       <Field label="Material" error={e.materialName?.message}>
@@ -193,7 +193,7 @@ export function PlateSection({ doc, units, commit, issues, readOnly }: { doc: Pl
       <Field label="Density (g/cm³)" error={e.density?.message}>
         <input {...form.register('density')} className={inputCls(!!e.density)} />
       </Field>
-      <p className="col-span-2 text-xs text-plate-500">Outline: {auto ? 'automatic — hull of every feature plus the edge margin, corners filleted' : 'your own polygon'}.</p>
+      <p className="col-span-2 text-xs text-plate-500">Outline: {auto ? 'automatic — hull of every feature plus the edge margin, corners filleted' : 'your own polygon (corners in the Outline section above; a corner with its own radius keeps it)'}.</p>
     </fieldset>
   );
 }

@@ -909,8 +909,9 @@ const SEVERITY_ORDER: Readonly<Record<Severity, number>> = { error: 0, warning: 
  * Every design check of the plate, errors first. Throws only when the spec cannot be turned into
  * a plate at all (DomainError naming the field).
  */
-export function checkPlate(spec: PlateSpec): Finding[] {
-  const r = resolvePlate(spec);
+export function checkPlate(spec: PlateSpec, resolved?: ResolvedPlate): Finding[] {
+  // `resolved`: resolvePlate(spec) when the caller has it already (the editor lays out first)
+  const r = resolved ?? resolvePlate(spec);
   const out: Finding[] = [];
   checkLigaments(r, out);
   checkOutline(r, out);

@@ -6,9 +6,12 @@
  */
 import { checkPlate, plateSpecSchema, resolvePlate, specIssues, type Finding, type PlateProfile, type PlateSpec, type PlateSpecInput, type SpecIssue } from '~/domain';
 import { isDomainError } from '~/domain/errors';
+import type { ResolvedPlate } from '~/domain/profile';
 
 export interface Layout {
   readonly spec: PlateSpec | null;
+  /** the laid-out plate, kept for the checks (they need the same resolution) */
+  readonly resolved: ResolvedPlate | null;
   readonly profile: PlateProfile | null;
   readonly issues: readonly SpecIssue[];
   readonly issueMap: ReadonlyMap<string, string>;
@@ -45,22 +48,22 @@ export function layoutDoc(doc: PlateSpecInput): Layout {
   const parsed = plateSpecSchema.safeParse(doc);
   if (!parsed.success) {
     const issues = specIssues(parsed.error);
-    return { spec: null, profile: null, issues, issueMap: new Map(issues.map((i) => [i.path, i.message])), ms: performance.now() - t0 };
+    return { spec: null, resolved: null, profile: null, issues, issueMap: new Map(issues.map((i) => [i.path, i.message])), ms: performance.now() - t0 };
   }
   try {
-    const profile = resolvePlate(parsed.data).profile;
-    return { spec: parsed.data, profile, issues: [], issueMap: NO_ISSUES, ms: performance.now() - t0 };
+    const resolved = resolvePlate(parsed.data);
+    return { spec: parsed.data, resolved, profile: resolved.profile, issues: [], issueMap: NO_ISSUES, ms: performance.now() - t0 };
   } catch (e) {
-    return { spec: parsed.data, profile: null, ...problem(e), ms: performance.now() - t0 };
+    return { spec: parsed.data, resolved: null, profile: null, ...problem(e), ms: performance.now() - t0 };
   }
 }
 
 /** Every design check of a laid-out plate (none when it could not be laid out). */
 export function checkLayout(layout: Layout): Checked {
   const t0 = performance.now();
-  if (!layout.spec || !layout.profile) return { layout, findings: [], ms: 0 };
+  if (!layout.spec || !layout.resolved) return { layout, findings: [], ms: 0 };
   try {
-    return { layout, findings: checkPlate(layout.spec), ms: performance.now() - t0 };
+    return { layout, findings: checkPlate(layout.spec, layout.resolved), ms: performance.now() - t0 };
   } catch (e) {
     if (!isDomainError(e)) throw e;
     return { layout, findings: [], ms: performance.now() - t0 };

@@ -29,12 +29,30 @@ export function getKernel(onProgress?: (p: KernelProgress) => void): Promise<Ker
     if (last) onProgress(last);
   }
   if (!ready) {
-    worker = new Worker(new URL('./kernel.worker.ts', import.meta.url), { type: 'module', name: 'platewright-kernel' });
-    remote = Comlink.wrap<KernelWorkerApi>(worker);
+    const w = new Worker(new URL('./kernel.worker.ts', import.meta.url), { type: 'module', name: 'platewright-kernel' });
+    worker = w;
+    remote = Comlink.wrap<KernelWorkerApi>(w);
     const r = remote;
-    ready = r.init(Comlink.proxy(emit)).then(
-      () => r,
+    // a worker script that cannot load or run never answers: say so instead of waiting for ever
+    let onError: (ev: ErrorEvent) => void = () => undefined;
+    const failed = new Promise<never>((_, reject) => {
+      onError = (ev) =>
+        reject(
+          new Error(
+            `The CAD kernel could not start in this browser (${ev.message || 'its worker script did not load'}). ` +
+              'Your plate is not affected: check the connection and reload the page to try again.',
+          ),
+        );
+      w.addEventListener('error', onError);
+    });
+    failed.catch(() => undefined);
+    ready = Promise.race([r.init(Comlink.proxy(emit)), failed]).then(
+      () => {
+        w.removeEventListener('error', onError);
+        return r;
+      },
       (e: unknown) => {
+        w.removeEventListener('error', onError);
         ready = null;
         worker?.terminate();
         worker = null;

@@ -185,4 +185,21 @@ describe('kernel check page in Chromium', () => {
     await expect(view.getAttribute('data-source')).resolves.toBe('kernel');
     await context.close();
   });
+
+  it('a kernel worker that cannot load answers a clear message instead of a bar that never ends', async () => {
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    let blocked = 0;
+    await page.route(/kernel\.worker[^/]*\.js(\?|$)/, (route) => {
+      blocked++;
+      return route.fulfill({ status: 404, body: 'not here' });
+    });
+    await page.goto(base + '/kernel');
+    const error = page.locator('#kernel-error');
+    await error.waitFor({ state: 'visible', timeout: 30_000 });
+    expect(blocked).toBeGreaterThan(0);
+    await expect(error.innerText()).resolves.toMatch(/^The CAD kernel could not start in this browser \(.+\)\. Your plate is not affected: check the connection and reload the page to try again\.$/);
+    await page.screenshot({ path: '.test-artifacts/screens/kernel-no-worker.png' });
+    await context.close();
+  });
 });

@@ -40,6 +40,8 @@ const env: Record<string, string> = {
   SMTP_URL: 'smtp://127.0.0.1:2597',
   UPLOAD_DIR: `${ROOT}.data/bench-uploads`,
   DB_POOL_SIZE: '20',
+  // app processes on the port (scripts/serve.mjs, node:cluster); BENCH_WORKERS=2 to compare
+  WEB_CONCURRENCY: process.env.BENCH_WORKERS ?? '1',
 };
 Object.assign(process.env, env);
 delete process.env.DATABASE_URL;

@@ -32,4 +32,4 @@ if [ "${NODE_ENV:-}" != "production" ] || [ -n "${SEED_DEMO:-}" ]; then
   say "demo sign-ins (demo only): designer@ / engineer@ / machinist@ / admin@example.test, password: ${DEMO_PASSWORD:-platewright-demo}"
 fi
 say "stop with Ctrl-C; the database keeps running (npm run db:stop stops it)"
-exec node dist/server/entry.mjs
+exec node scripts/serve.mjs

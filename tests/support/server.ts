@@ -7,12 +7,16 @@ export interface RunningServer {
   baseUrl: string;
   stop(): Promise<void>;
   output(): string;
+  /** the server's process id (with WEB_CONCURRENCY > 1: the primary's) */
+  pid(): number;
 }
 
 /** Start the built app (dist/server/entry.mjs) against the test database and wait until it answers. */
 export async function startServer(port: number, env: Record<string, string> = {}): Promise<RunningServer> {
   let log = '';
-  const child: ChildProcess = spawn(process.execPath, [`${process.env.PLATEWRIGHT_DIST ?? 'dist'}/server/entry.mjs`], {
+  // with WEB_CONCURRENCY > 1, through scripts/serve.mjs (several processes on one port)
+  const script = Number(env.WEB_CONCURRENCY ?? 1) > 1 ? 'scripts/serve.mjs' : `${process.env.PLATEWRIGHT_DIST ?? 'dist'}/server/entry.mjs`;
+  const child: ChildProcess = spawn(process.execPath, [script], {
     cwd: ROOT,
     env: { ...process.env, HOST: '127.0.0.1', PORT: String(port), ...env },
     stdio: ['ignore', 'pipe', 'pipe'],
@@ -38,6 +42,7 @@ export async function startServer(port: number, env: Record<string, string> = {}
   return {
     baseUrl,
     output: () => log,
+    pid: () => child.pid!,
     stop: () =>
       new Promise<void>((resolve) => {
         if (child.exitCode !== null) return resolve();

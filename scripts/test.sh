@@ -58,9 +58,9 @@ mkdir -p .test-artifacts
 filters=("$@")
 status=0
 summary=()
-# TEST_SUITES="unit e2e" runs only those suites; arguments (npm test -- FILTER…) go to vitest as
+# TEST_SUITES="unit e2e" runs only those suites (default: types unit integration e2e); arguments (npm test -- FILTER…) go to vitest as
 # file filters, e.g. `TEST_SUITES=e2e npm test -- editor`.
-suites="${TEST_SUITES:-unit integration e2e}"
+suites="${TEST_SUITES:-types unit integration e2e}"
 run_suite() {
   local name="$1" config="$2"
   case " $suites " in *" $name "*) ;; *) return 0 ;; esac
@@ -74,6 +74,11 @@ run_suite() {
     summary+=("$name: did not run"); status=1
   fi
 }
+# The type check (tsc --noEmit over src, tests, bench and scripts) counts as a suite of its own.
+case " $suites " in *" types "*)
+  say "checking types"
+  if npx tsc --noEmit -p .; then summary+=("types: no errors"); else summary+=("types: errors (see above)"); status=1; fi ;;
+esac
 run_suite unit vitest.config.ts
 run_suite integration vitest.integration.config.ts
 # End-to-end tests start from a fresh database with the demo shop (integration tests leave their

@@ -38,7 +38,7 @@ const demo: PlateSpecInput = {
   partLabel: 'PW-DEMO-01',
   engineFace: {
     viewedFrom: 'rear',
-    description: 'Invented 1.8 L inline-4 demo engine, rear face of the block',
+    description: 'Invented H4 2.3 L inline-four (demo), rear face of the block',
     patterns: [
       { id: 'EB', diameterMm: 240, anglesDeg: engineBolts, note: 'block bolt holes, tapped M8 in the block' },
       { id: 'ED', diameterMm: 240, anglesDeg: [25, 185], note: 'block dowels' },
@@ -59,7 +59,7 @@ const demo: PlateSpecInput = {
   },
   transmissionFace: {
     viewedFrom: 'front',
-    description: 'Invented 5-speed demo gearbox, bell housing face measured looking at it',
+    description: 'Invented C5 five-speed gearbox (demo), bell housing face measured looking at it',
     patterns: [
       {
         id: 'TB',

@@ -40,7 +40,12 @@ const featureIdSchema = z
   .string(need('must be a feature id (text)'))
   .regex(ID_RE, { error: 'must start with a letter and hold up to 16 letters, digits, "-" or "_" (e.g. "E1", "TD2")' });
 
-const mm = z.number(need('must be a number of millimetres'));
+/** No length of an adapter plate comes near this; beyond it areas and masses lose all meaning (and overflow). */
+export const MAX_LENGTH_MM = 10_000;
+const mm = z
+  .number(need('must be a number of millimetres'))
+  .min(-MAX_LENGTH_MM, { error: `must be within ±${MAX_LENGTH_MM} mm (10 m)` })
+  .max(MAX_LENGTH_MM, { error: `must be within ±${MAX_LENGTH_MM} mm (10 m)` });
 const positiveMm = mm.positive({ error: 'must be greater than 0 mm' });
 const nonNegativeMm = mm.min(0, { error: 'must be 0 mm or more' });
 const deg = z.number(need('must be a number of degrees'));

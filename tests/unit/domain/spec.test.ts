@@ -31,6 +31,21 @@ describe('plate spec schema', () => {
     expect(spec.edgeChamferMm).toBe(0);
   });
 
+  it('refuses lengths beyond 10 m with a message naming the field (areas and masses would overflow)', () => {
+    const input = baseInput() as any;
+    input.engineFace.patterns[0].diameterMm = 2.39e153;
+    const e = rejection(input);
+    expect(e.message).toMatch(/within ±10000 mm/);
+    expect(e.message).toMatch(/engineFace\.patterns\.0\.diameterMm|diameterMm/);
+    const below = baseInput() as any;
+    below.engineFace.holes[4].x = -10_001;
+    expect(rejection(below).message).toMatch(/within ±10000 mm/);
+    // an ordinary length is still accepted
+    const edge = baseInput() as any;
+    edge.engineFace.patterns[0].diameterMm = 200;
+    expect(() => parsePlateSpec(edge)).not.toThrow();
+  });
+
   it('accepts the same document as JSON text', () => {
     const spec = parsePlateSpec(JSON.stringify(baseInput()));
     expect(spec.engineFace.holes).toHaveLength(6);

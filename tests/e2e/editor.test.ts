@@ -1,26 +1,16 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { mkdirSync, readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import type { BrowserContext, Page } from 'playwright-core';
+import { DEMO_PASSWORD, E2E_BASE, SHOTS, useBrowser } from '../support/e2e';
+import { readFileSync } from 'node:fs';
 import DxfParser from 'dxf-parser';
-import { launchBrowser } from '../support/browser';
-import { testAppPort } from '../support/server';
 
-const base = process.env.E2E_BASE_URL ?? `http://127.0.0.1:${testAppPort()}`;
-const PASSWORD = process.env.DEMO_PASSWORD ?? 'platewright-demo';
-const SHOTS = '.test-artifacts/screens';
+const base = E2E_BASE;
+const PASSWORD = DEMO_PASSWORD;
 const demoSpec = JSON.parse(readFileSync(new URL('../../templates/plates/demo.json', import.meta.url), 'utf8'));
-let browser: Browser;
-
-beforeAll(async () => {
-  mkdirSync(SHOTS, { recursive: true });
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = useBrowser();
 
 async function signedIn(email: string, viewport = { width: 1366, height: 768 }): Promise<{ context: BrowserContext; page: Page }> {
-  const context = await browser.newContext({ viewport, acceptDownloads: true });
+  const context = await browser().newContext({ viewport, acceptDownloads: true });
   const page = await context.newPage();
   const r = await page.request.post(`${base}/api/auth/sign-in`, { data: { email, password: PASSWORD }, headers: { origin: base } });
   expect(r.status(), await r.text()).toBe(200);

@@ -1,32 +1,11 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { mkdirSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { E2E_BASE, SHOTS, signInThroughForm, useBrowser } from '../support/e2e';
 import { extractText, getDocumentProxy } from 'unpdf';
-import { launchBrowser } from '../support/browser';
-import { testAppPort } from '../support/server';
 
-const base = process.env.E2E_BASE_URL ?? `http://127.0.0.1:${testAppPort()}`;
-const PASSWORD = process.env.DEMO_PASSWORD ?? 'platewright-demo';
-const SHOTS = '.test-artifacts/screens';
-let browser: Browser;
+const base = E2E_BASE;
+const browser = useBrowser();
 
-beforeAll(async () => {
-  mkdirSync(SHOTS, { recursive: true });
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
-
-async function signedIn(email: string): Promise<{ context: BrowserContext; page: Page }> {
-  const context = await browser.newContext({ viewport: { width: 1500, height: 950 }, acceptDownloads: true });
-  const page = await context.newPage();
-  await page.goto(base + '/sign-in');
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(PASSWORD);
-  await Promise.all([page.waitForURL((u) => u.pathname !== '/sign-in'), page.getByLabel('Password').press('Enter')]);
-  return { context, page };
-}
+const signedIn = (email: string) => signInThroughForm(browser(), email, { viewport: { width: 1500, height: 950 }, acceptDownloads: true });
 
 interface PlanHole { id: string; nominal: { x: number; y: number }; size: { lowerMm: number; upperMm: number }; depth: { nominalMm: number } | null }
 

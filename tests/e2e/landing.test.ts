@@ -1,21 +1,12 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { launchBrowser } from '../support/browser';
-import { testAppPort } from '../support/server';
+import { describe, expect, it } from 'vitest';
+import { E2E_BASE, useBrowser } from '../support/e2e';
 
-const base = process.env.E2E_BASE_URL ?? `http://127.0.0.1:${testAppPort()}`;
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const base = E2E_BASE;
+const browser = useBrowser();
 
 describe('landing page in Chromium', () => {
   it('shows the title, the job, the navigation and uses the self-hosted font', async () => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     const fontRequests: string[] = [];
     const foreignRequests: string[] = [];
     page.on('request', (r) => {

@@ -1,33 +1,13 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { mkdirSync } from 'node:fs';
-import { launchBrowser } from '../support/browser';
-import { testAppPort } from '../support/server';
+import { describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { E2E_BASE, SHOTS, signInThroughForm, useBrowser } from '../support/e2e';
 import { formatMoney } from '../../src/domain/quote/money';
 
-const base = process.env.E2E_BASE_URL ?? `http://127.0.0.1:${testAppPort()}`;
+const base = E2E_BASE;
 const PAYMENTS = process.env.PAYMENTS_API_BASE ?? '';
-const PASSWORD = process.env.DEMO_PASSWORD ?? 'platewright-demo';
-const SHOTS = '.test-artifacts/screens';
-let browser: Browser;
+const browser = useBrowser();
 
-beforeAll(async () => {
-  mkdirSync(SHOTS, { recursive: true });
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
-
-async function signedIn(email: string): Promise<{ context: BrowserContext; page: Page }> {
-  const context = await browser.newContext({ viewport: { width: 1366, height: 900 } });
-  const page = await context.newPage();
-  await page.goto(base + '/sign-in');
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(PASSWORD);
-  await Promise.all([page.waitForURL((u) => u.pathname !== '/sign-in'), page.getByLabel('Password').press('Enter')]);
-  return { context, page };
-}
+const signedIn = (email: string) => signInThroughForm(browser(), email, { viewport: { width: 1366, height: 900 } });
 
 /** Islands answer clicks only once hydrated (Astro drops the ssr attribute then). */
 async function hydrated(page: Page): Promise<void> {

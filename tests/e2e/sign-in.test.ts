@@ -1,22 +1,11 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
-import { mkdirSync } from 'node:fs';
-import { launchBrowser } from '../support/browser';
-import { testAppPort } from '../support/server';
+import { describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { DEMO_PASSWORD, E2E_BASE, SHOTS, useBrowser } from '../support/e2e';
 import { linkIn, waitForMail } from '../support/mail';
 
-const base = process.env.E2E_BASE_URL ?? `http://127.0.0.1:${testAppPort()}`;
-const PASSWORD = process.env.DEMO_PASSWORD ?? 'platewright-demo';
-const SHOTS = '.test-artifacts/screens';
-let browser: Browser;
-
-beforeAll(async () => {
-  mkdirSync(SHOTS, { recursive: true });
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const base = E2E_BASE;
+const PASSWORD = DEMO_PASSWORD;
+const browser = useBrowser();
 
 /** Do something that submits a form (a full page load, no script), then wait for the new page. */
 async function submits(page: Page, action: () => Promise<void>) {
@@ -46,7 +35,7 @@ describe('sign-in in Chromium', () => {
 
   for (const [role, want] of Object.entries(expected)) {
     it(`signs in as the demo ${role} through the form and sees only the ${role}'s sections`, async () => {
-      const context = await browser.newContext();
+      const context = await browser().newContext();
       const page = await context.newPage();
       await signInWithKeyboard(page, `${role}@example.test`, PASSWORD);
       expect(new URL(page.url()).pathname).toBe(want.lands);
@@ -68,7 +57,7 @@ describe('sign-in in Chromium', () => {
   }
 
   it('shows a wrong password inline, keeps the e-mail, and puts the cursor back in the password field', async () => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     await page.setViewportSize({ width: 1280, height: 800 });
     await page.goto(base + '/sign-in');
     await page.screenshot({ path: `${SHOTS}/sign-in.png`, fullPage: true });
@@ -85,7 +74,7 @@ describe('sign-in in Chromium', () => {
   });
 
   it('sends an anonymous visitor to sign-in and back to the page they asked for', async () => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     await page.goto(base + '/account');
     expect(page.url()).toBe(`${base}/sign-in?next=%2Faccount`);
     await page.getByLabel('E-mail').fill('machinist@example.test');
@@ -103,7 +92,7 @@ describe('sign-in in Chromium', () => {
   });
 
   it('admin: users table, invite someone, read the mail, accept as the newcomer', async () => {
-    const admin = await browser.newContext();
+    const admin = await browser().newContext();
     const page = await admin.newPage();
     await page.setViewportSize({ width: 1400, height: 900 });
     await signInWithKeyboard(page, 'admin@example.test', PASSWORD);
@@ -125,7 +114,7 @@ describe('sign-in in Chromium', () => {
     await page.screenshot({ path: `${SHOTS}/admin-mail.png`, fullPage: true });
 
     const link = linkIn(await waitForMail(email), base, '/invite/');
-    const newcomer = await browser.newContext();
+    const newcomer = await browser().newContext();
     const np = await newcomer.newPage();
     await np.goto(link);
     await np.screenshot({ path: `${SHOTS}/invite.png`, fullPage: true });

@@ -1,34 +1,15 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { mkdirSync, readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { E2E_BASE, SHOTS, signInThroughForm, useBrowser } from '../support/e2e';
+import { readFileSync } from 'node:fs';
 import DxfParser from 'dxf-parser';
-import { launchBrowser } from '../support/browser';
-import { testAppPort } from '../support/server';
 import { parsePlateSpec, plateProfile } from '../../src/domain/index';
 
-const base = process.env.E2E_BASE_URL ?? `http://127.0.0.1:${testAppPort()}`;
-const PASSWORD = process.env.DEMO_PASSWORD ?? 'platewright-demo';
-const SHOTS = '.test-artifacts/screens';
+const base = E2E_BASE;
 const demoSpec = JSON.parse(readFileSync(new URL('../../templates/plates/demo.json', import.meta.url), 'utf8'));
-let browser: Browser;
+const browser = useBrowser();
 
-beforeAll(async () => {
-  mkdirSync(SHOTS, { recursive: true });
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
-
-async function signedIn(email: string): Promise<{ context: BrowserContext; page: Page }> {
-  const context = await browser.newContext({ viewport: { width: 1366, height: 900 }, acceptDownloads: true });
-  const page = await context.newPage();
-  await page.goto(base + '/sign-in');
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(PASSWORD);
-  await Promise.all([page.waitForURL((u) => u.pathname !== '/sign-in'), page.getByLabel('Password').press('Enter')]);
-  return { context, page };
-}
+const signedIn = (email: string) => signInThroughForm(browser(), email, { viewport: { width: 1366, height: 900 }, acceptDownloads: true });
 
 /** Save a revision the way the editor does (same session cookie, same endpoint). */
 async function saveRevision(page: Page, plateId: number, spec: unknown, message: string, parentRevisionId: number | null): Promise<number> {

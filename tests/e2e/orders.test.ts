@@ -1,6 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { Page } from 'playwright-core';
-import { E2E_BASE, SHOTS, signInThroughForm, useBrowser } from '../support/e2e';
+import { E2E_BASE, hydrated, SHOTS, signInThroughForm, useBrowser } from '../support/e2e';
 import { formatMoney } from '../../src/domain/quote/money';
 
 const base = E2E_BASE;
@@ -9,10 +8,6 @@ const browser = useBrowser();
 
 const signedIn = (email: string) => signInThroughForm(browser(), email, { viewport: { width: 1366, height: 900 } });
 
-/** Islands answer clicks only once hydrated (Astro drops the ssr attribute then). */
-async function hydrated(page: Page): Promise<void> {
-  await page.waitForFunction(() => document.querySelectorAll('astro-island[ssr]').length === 0, undefined, { timeout: 30_000 });
-}
 
 describe('made-to-order plate in Chromium', () => {
   it('designer quotes PW-0001 rev 3, accepts, pays on the checkout page, sees it paid; the shop sees it queued', async () => {

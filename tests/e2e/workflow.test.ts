@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { E2E_BASE, SHOTS, signInThroughForm, useBrowser } from '../support/e2e';
+import { E2E_BASE, islandReady, SHOTS, signInThroughForm, useBrowser } from '../support/e2e';
 import { readFileSync } from 'node:fs';
 import DxfParser from 'dxf-parser';
 import { parsePlateSpec, plateProfile } from '../../src/domain/index';
@@ -27,9 +27,11 @@ describe('designer → engineer → machinist in Chromium', () => {
 
     // designer: a new project and a plate, from the projects screen
     await d.goto(base + '/projects');
+    await islandReady(d.getByLabel('Name'));
     await d.getByLabel('Name').fill('E2E swap: invented roadster');
     await d.getByLabel(/Swap/).fill('Invented test engine into an invented roadster.');
     await Promise.all([d.waitForURL(/\/projects\/\d+$/), d.getByRole('button', { name: 'Create project' }).click()]);
+    await islandReady(d.getByLabel('Title'));
     await d.getByLabel('Title').fill('E2E adapter plate');
     await Promise.all([d.waitForURL(/\/plates\/\d+/), d.getByRole('button', { name: 'Add plate' }).click()]);
     const plateId = Number(new URL(d.url()).pathname.split('/').pop());
@@ -38,6 +40,7 @@ describe('designer → engineer → machinist in Chromium', () => {
 
     const rev1 = await saveRevision(d, plateId, demoSpec, 'First layout', null);
     await d.goto(`${base}/plates/${plateId}`);
+    await islandReady(d.getByRole('button', { name: 'Submit revision 1 for review' }));
     await d.getByRole('button', { name: 'Submit revision 1 for review' }).click();
     await d.getByText('In review', { exact: true }).first().waitFor();
     await d.screenshot({ path: `${SHOTS}/workflow-1-submitted.png`, fullPage: true });
@@ -49,6 +52,7 @@ describe('designer → engineer → machinist in Chromium', () => {
     await expect(row.innerText()).resolves.toMatch(/rev 1/);
     await e.screenshot({ path: `${SHOTS}/workflow-2-queue.png`, fullPage: true });
     await Promise.all([e.waitForURL(/\/plates\/\d+/), row.getByRole('link', { name: partNumber }).click()]);
+    await islandReady(e.getByRole('button', { name: 'Request changes' }));
     await e.getByRole('button', { name: 'Request changes' }).click();
     await expect(e.getByRole('alert').innerText()).resolves.toMatch(/comment|change/i); // no comment yet: refused inline
     await e.getByLabel(/Comment/).fill('Widen the edge margin to 14 mm around the starter.');
@@ -60,11 +64,13 @@ describe('designer → engineer → machinist in Chromium', () => {
     await expect(d.getByTestId('history').innerText()).resolves.toContain('Widen the edge margin');
     const rev2 = await saveRevision(d, plateId, { ...demoSpec, outline: { ...demoSpec.outline, edgeMarginMm: 14 } }, 'Edge margin 14 mm', rev1);
     await d.goto(`${base}/plates/${plateId}?rev=${rev2}`);
+    await islandReady(d.getByRole('button', { name: 'Submit revision 2 for review' }));
     await d.getByRole('button', { name: 'Submit revision 2 for review' }).click();
     await d.getByText('In review', { exact: true }).first().waitFor();
 
     // engineer: approves rev 2 (files are generated and stored)
     await e.goto(`${base}/plates/${plateId}?rev=${rev2}`);
+    await islandReady(e.getByLabel(/Comment/));
     await e.getByLabel(/Comment/).fill('Margin fixed; released.');
     await e.getByRole('button', { name: 'Approve revision 2' }).click();
     await e.getByText('Released', { exact: true }).first().waitFor({ timeout: 60_000 });

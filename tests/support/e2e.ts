@@ -3,7 +3,7 @@
  * folder, one headless Chromium per file and signing in through the form.
  */
 import { afterAll, beforeAll } from 'vitest';
-import type { Browser, BrowserContext, Page } from 'playwright-core';
+import type { Browser, BrowserContext, Locator, Page } from 'playwright-core';
 import { mkdirSync } from 'node:fs';
 import { launchBrowser } from './browser';
 import { testAppPort } from './server';
@@ -41,4 +41,15 @@ export async function signInThroughForm(
   await page.getByLabel('Password').fill(opts.password ?? DEMO_PASSWORD);
   await Promise.all([page.waitForURL((u) => u.pathname !== '/sign-in'), page.getByLabel('Password').press('Enter')]);
   return { context, page };
+}
+
+/** Islands answer clicks only once hydrated (Astro drops the ssr attribute then): wait for that. */
+export async function hydrated(page: Page): Promise<void> {
+  await page.waitForFunction(() => document.querySelectorAll('astro-island[ssr]').length === 0, undefined, { timeout: 30_000 });
+}
+
+/** Waits until the island holding `target` is hydrated (islands shown `client:visible` further down may still wait). */
+export async function islandReady(target: Locator): Promise<void> {
+  const el = await target.first().elementHandle({ timeout: 30_000 });
+  await target.page().waitForFunction((node) => !node?.closest('astro-island')?.hasAttribute('ssr'), el, { timeout: 30_000 });
 }

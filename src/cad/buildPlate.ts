@@ -20,11 +20,12 @@
 import type { OpenCascadeInstance, TopoDS_Edge, TopoDS_Face, TopoDS_Shape, TopoDS_Wire } from 'replicad-opencascadejs';
 import type { OutlineSegment, PlateProfile } from '../domain/profileTypes';
 import { arcSweepRad, pointInChain } from '../domain/exports/outlineMath';
-import { layoutIsDisjoint } from '../domain/checks';
+import { layoutIsDisjoint } from '../domain/layout';
 import { canonicalJson } from '../domain/canonicalJson';
 import { analyticVolumeMm3 } from './analyticVolume';
 import { describeKernelFailure, fatalKernelError, PlateBuildError } from './errors';
 import { offsetOutlineInward } from './offsetOutline';
+import type { ShapeSignature } from './signature';
 import { analyseLayout, type CircleColumn, type PocketColumn, type VoidColumn } from './plateModel';
 
 export type BuildStrategy = 'direct' | 'oneFace';
@@ -704,6 +705,49 @@ export function constructPlateSolidUnverified(oc: OpenCascadeInstance, profile: 
     const kit = new Kit(oc, scope);
     const built = strategy === 'direct' ? buildDirect(kit, profile, layout.columns, () => {}) : buildOneFace(kit, profile, layout.columns);
     return scope.release(built);
+  } finally {
+    scope.free();
+  }
+}
+
+function countOf(oc: OpenCascadeInstance, shape: TopoDS_Shape, type: 'face' | 'edge' | 'vertex'): number {
+  const kind = type === 'face' ? oc.TopAbs_ShapeEnum.TopAbs_FACE : type === 'edge' ? oc.TopAbs_ShapeEnum.TopAbs_EDGE : oc.TopAbs_ShapeEnum.TopAbs_VERTEX;
+  const ex = new oc.TopExp_Explorer(shape, kind, oc.TopAbs_ShapeEnum.TopAbs_SHAPE);
+  let n = 0;
+  try {
+    for (; ex.More(); ex.Next()) n++;
+  } finally {
+    ex.delete();
+  }
+  return n;
+}
+
+/** Faces, edges and vertices (as the explorer meets them) and the optimal bounding box (or `bbox`, measured before). */
+export function shapeSignature(oc: OpenCascadeInstance, shape: TopoDS_Shape, bbox?: PlateVerification['bbox']): ShapeSignature {
+  return {
+    faces: countOf(oc, shape, 'face'),
+    edges: countOf(oc, shape, 'edge'),
+    vertices: countOf(oc, shape, 'vertex'),
+    bbox: bbox ?? measureBoundingBox(oc, shape),
+  };
+}
+
+/**
+ * The construction buildPlate tries first (direct when the layout allows it, else one-face), for
+ * a display mesh made beside the verified build: the same profile, construction and kernel give
+ * the same solid. Its result is NOT verified: it may be shown only once buildPlate has verified
+ * the same profile with the same strategy and the two signatures agree; otherwise it is thrown
+ * away. Layout errors throw as in buildPlate. The caller owns the returned shape.
+ */
+export function constructForDisplay(oc: OpenCascadeInstance, profile: PlateProfile): { shape: TopoDS_Shape; strategy: BuildStrategy } {
+  const layout = analyseLayout(profile);
+  if (layout.errors.length > 0) throw layout.errors[0]!;
+  const strategy: BuildStrategy = layout.directSafe && layoutIsDisjoint(profile) ? 'direct' : 'oneFace';
+  const scope = new Scope();
+  try {
+    const kit = new Kit(oc, scope);
+    const built = strategy === 'direct' ? buildDirect(kit, profile, layout.columns, () => {}) : buildOneFace(kit, profile, layout.columns);
+    return { shape: scope.release(built), strategy };
   } finally {
     scope.free();
   }

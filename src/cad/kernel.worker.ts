@@ -7,15 +7,21 @@
  * the instance (out of memory, a trap or abort inside the wasm) answers a clear failure
  * (kernel-out-of-memory / kernel-crashed); the instance and its cached solid are dropped at once
  * and the next call starts a fresh kernel from the bytes already downloaded.
+ *
+ * A page may run a second worker of this script beside the first (see kernelClient): it starts
+ * from the first one's compiled module (no second download or compile) and only makes display
+ * meshes of unverified constructions (`displayMesh`), which the page shows only when the first
+ * worker's verified solid of the same profile has the same strategy and signature.
  */
 import * as Comlink from 'comlink';
 import opencascade, { type OpenCascadeInstance } from 'replicad-opencascadejs';
 import wasmUrl from 'replicad-opencascadejs/wasm?url';
 import type { PlateProfile } from '../domain/profileTypes';
-import { PlateCache, profileKey, type PlateVerification, type BuildStrategy } from './buildPlate';
+import { constructForDisplay, measureBoundingBox, PlateCache, profileKey, shapeSignature, type PlateVerification, type BuildStrategy } from './buildPlate';
 import { fatalKernelError, isPlateBuildError } from './errors';
 import { exhaustKernelHeap } from './heapLimit';
 import { cloneMesh, meshTransferables, plateMesh, sizeOfBox, type PlateMesh } from './mesh';
+import type { ShapeSignature } from './signature';
 import { plateStep, type StepMeta } from './step';
 import { KERNEL_VERSION } from './version';
 
@@ -36,6 +42,28 @@ export interface KernelBuildResult {
   readonly heapBytes: number;
 }
 
+/** The verified solid without a mesh (`verify`): what the page compares a display mesh with. */
+export interface KernelVerifyResult {
+  readonly ok: true;
+  readonly strategy: BuildStrategy;
+  readonly verification: PlateVerification;
+  readonly signature: ShapeSignature;
+  readonly cached: boolean;
+  readonly buildMs: number;
+  readonly heapBytes: number;
+}
+
+/** A display mesh of the first-choice construction, NOT verified (`displayMesh`). */
+export interface KernelDisplayMesh {
+  readonly ok: true;
+  readonly mesh: PlateMesh;
+  readonly strategy: BuildStrategy;
+  readonly signature: ShapeSignature;
+  readonly cached: boolean;
+  readonly buildMs: number;
+  readonly meshMs: number;
+}
+
 export interface KernelBuildFailure {
   readonly ok: false;
   readonly code: string;
@@ -47,6 +75,7 @@ export interface KernelBuildFailure {
 const RECYCLE_ABOVE_BYTES = 768 * 1024 * 1024;
 
 let wasmBytes: Uint8Array | null = null;
+let wasmModule: WebAssembly.Module | null = null;
 let oc: OpenCascadeInstance | null = null;
 let starting: Promise<OpenCascadeInstance> | null = null;
 let restarts = 0;
@@ -55,6 +84,8 @@ let lastFatal: string | null = null;
 const cache = new PlateCache();
 /** the display mesh of the cached solid: the same profile is meshed once */
 let lastMesh: { oc: OpenCascadeInstance; key: string; mesh: PlateMesh } | null = null;
+/** the last display mesh of an unverified construction (`displayMesh`), by profile */
+let lastDisplay: { oc: OpenCascadeInstance; key: string; result: KernelDisplayMesh } | null = null;
 
 async function download(onProgress?: (p: KernelProgress) => void): Promise<Uint8Array> {
   if (wasmBytes) return wasmBytes;
@@ -88,14 +119,22 @@ async function startKernel(onProgress?: (p: KernelProgress) => void): Promise<Op
   if (oc) return oc;
   starting ??= (async () => {
     const t0 = performance.now();
-    const bytes = await download(onProgress);
-    onProgress?.({ phase: 'starting' });
+    if (!wasmModule) {
+      const bytes = await download(onProgress);
+      onProgress?.({ phase: 'starting' });
+      wasmModule = await WebAssembly.compile(bytes as Uint8Array<ArrayBuffer>);
+    } else onProgress?.({ phase: 'starting' });
+    const module = wasmModule;
     const instance = await opencascade({
-      wasmBinary: bytes,
+      // every (re)start instantiates the module compiled once; a second worker gets it posted
+      instantiateWasm: (imports: WebAssembly.Imports, done: (i: WebAssembly.Instance, m: WebAssembly.Module) => void) => {
+        void WebAssembly.instantiate(module, imports).then((i) => done(i, module));
+        return {};
+      },
       locateFile: () => wasmUrl,
       print: () => {},
       printErr: () => {},
-    });
+    } as Parameters<typeof opencascade>[0]);
     oc = instance;
     starting = null;
     onProgress?.({ phase: 'ready', ms: performance.now() - t0 });
@@ -120,6 +159,7 @@ function maybeRecycle(onProgress?: (p: KernelProgress) => void) {
 function discard(onProgress?: (p: KernelProgress) => void) {
   cache.clear();
   lastMesh = null;
+  lastDisplay = null;
   oc = null;
   restarts++;
   onProgress?.({ phase: 'restarting' });
@@ -177,6 +217,77 @@ const api = {
       return Comlink.transfer(result, meshTransferables(mesh));
     } catch (e) {
       return failure(fatal(k, e, 'building the plate') ?? e);
+    } finally {
+      maybeRecycle();
+    }
+  },
+
+  /** The compiled kernel module, for a second worker on the same page (starts the kernel first). */
+  async compiledModule(): Promise<WebAssembly.Module> {
+    await startKernel();
+    return wasmModule!;
+  },
+
+  /** Starts this worker's kernel from a module compiled by another worker of the page. */
+  async initFromModule(module: WebAssembly.Module): Promise<{ kernelVersion: string; heapBytes: number }> {
+    wasmModule ??= module;
+    const k = await startKernel();
+    return { kernelVersion: KERNEL_VERSION, heapBytes: heapBytes(k) };
+  },
+
+  /** Builds (or reuses) the verified solid without meshing it: its verification and signature. */
+  async verify(profile: PlateProfile): Promise<KernelVerifyResult | KernelBuildFailure> {
+    const k = await startKernel();
+    try {
+      const t0 = performance.now();
+      const { plate, hit } = cache.get(k, profile);
+      const signature = shapeSignature(k, plate.shape, plate.verification.bbox);
+      return {
+        ok: true,
+        strategy: plate.strategy,
+        verification: plate.verification,
+        signature,
+        cached: hit,
+        buildMs: performance.now() - t0,
+        heapBytes: heapBytes(k),
+      };
+    } catch (e) {
+      return failure(fatal(k, e, 'building the plate') ?? e);
+    } finally {
+      maybeRecycle();
+    }
+  },
+
+  /**
+   * The display mesh of the construction buildPlate tries first, made WITHOUT verifying the solid
+   * (the page runs `verify` on the same profile in the other worker at the same time, and shows
+   * this mesh only when strategy and signature agree). The solid is not kept.
+   */
+  async displayMesh(profile: PlateProfile): Promise<KernelDisplayMesh | KernelBuildFailure> {
+    const k = await startKernel();
+    const key = profileKey(profile);
+    try {
+      if (lastDisplay && lastDisplay.oc === k && lastDisplay.key === key) {
+        const r = { ...lastDisplay.result, mesh: cloneMesh(lastDisplay.result.mesh), cached: true };
+        return Comlink.transfer(r, meshTransferables(r.mesh));
+      }
+      const t0 = performance.now();
+      const { shape, strategy } = constructForDisplay(k, profile);
+      try {
+        const bbox = measureBoundingBox(k, shape);
+        const signature = shapeSignature(k, shape, bbox);
+        const t1 = performance.now();
+        const made = plateMesh(k, shape, { sizeMm: sizeOfBox(bbox) });
+        const t2 = performance.now();
+        const result: KernelDisplayMesh = { ok: true, mesh: made, strategy, signature, cached: false, buildMs: t1 - t0, meshMs: t2 - t1 };
+        lastDisplay = { oc: k, key, result };
+        const sent = { ...result, mesh: cloneMesh(made) };
+        return Comlink.transfer(sent, meshTransferables(sent.mesh));
+      } finally {
+        shape.delete();
+      }
+    } catch (e) {
+      return failure(fatal(k, e, 'meshing the plate') ?? e);
     } finally {
       maybeRecycle();
     }

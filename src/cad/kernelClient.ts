@@ -2,9 +2,18 @@
  * Browser side of the kernel worker: one worker per page, started on first use. `getKernel`
  * resolves once the kernel is ready and reports the download and start-up to every caller's
  * progress callback. Only pages that need the kernel import this module (the wasm is large).
+ *
+ * `buildForDisplay` is what a 3D view calls after every edit. With two or more cores it runs a
+ * second worker (started from the first one's compiled module after the first build) that
+ * constructs and meshes the same profile while the first builds and verifies it: the mesh is
+ * shown only when the verified solid has the same strategy and signature and the mesh encloses
+ * the verified volume, else the verified solid itself is meshed. Nothing unverified is ever shown; the update takes the longer of the
+ * two jobs instead of their sum.
  */
 import * as Comlink from 'comlink';
-import type { KernelProgress, KernelWorkerApi } from './kernel.worker';
+import type { PlateProfile } from '../domain/profileTypes';
+import { meshMatchesVolume, sameSignature } from './signature';
+import type { KernelBuildFailure, KernelBuildResult, KernelProgress, KernelWorkerApi } from './kernel.worker';
 
 export type { KernelProgress, KernelBuildResult, KernelBuildFailure } from './kernel.worker';
 export type KernelApi = Comlink.Remote<KernelWorkerApi>;
@@ -71,9 +80,92 @@ export function progressFraction(p: KernelProgress | null): number {
   return 1;
 }
 
+let meshWorker: Worker | null = null;
+let mesher: KernelApi | null = null;
+let mesherStarting: Promise<void> | null = null;
+/** set when the second worker could not start (or the machine has one core): one worker only */
+let mesherOff = false;
+
+/** Starts the second worker in the background (once); `mesher` is set when it is ready. */
+function startMesher(k: KernelApi): void {
+  if (mesher || mesherStarting || mesherOff) return;
+  if (typeof navigator !== 'undefined' && (navigator.hardwareConcurrency ?? 1) < 2) {
+    mesherOff = true;
+    return;
+  }
+  mesherStarting = (async () => {
+    const w = new Worker(new URL('./kernel.worker.ts', import.meta.url), { type: 'module', name: 'platewright-kernel-mesh' });
+    meshWorker = w;
+    const r = Comlink.wrap<KernelWorkerApi>(w);
+    const failed = new Promise<never>((_, reject) => w.addEventListener('error', (ev) => reject(new Error(ev.message || 'mesh worker did not load')), { once: true }));
+    failed.catch(() => undefined);
+    await Promise.race([k.compiledModule().then((m) => r.initFromModule(m)), failed]);
+    if (meshWorker === w) mesher = r;
+  })().catch(() => {
+    // the view keeps working with the one verified worker (meshing after verifying)
+    mesherOff = true;
+    meshWorker?.terminate();
+    meshWorker = null;
+  }).finally(() => {
+    mesherStarting = null;
+  });
+}
+
+/** How one display update was made (the 3D view shows the times). */
+export interface DisplayBuild {
+  readonly result: KernelBuildResult | KernelBuildFailure;
+  /** the mesh came from the second worker, made while the first verified */
+  readonly meshedBeside: boolean;
+  /** kernel time on the update's critical path: the longer of the two jobs, or their sum */
+  readonly kernelCriticalMs: number;
+}
+
+/**
+ * The verified plate's display mesh for `profile`: in parallel across two workers when the
+ * second one is ready (see the module comment), else from the one worker.
+ */
+export async function buildForDisplay(profile: PlateProfile): Promise<DisplayBuild> {
+  const k = await getKernel();
+  const m = mesher;
+  if (!m) {
+    const result = await k.build(profile);
+    if (result.ok) startMesher(k);
+    return { result, meshedBeside: false, kernelCriticalMs: result.ok ? result.buildMs + result.meshMs : 0 };
+  }
+  const [v, d] = await Promise.all([
+    k.verify(profile),
+    m.displayMesh(profile).catch((e: unknown): KernelBuildFailure => ({ ok: false, code: 'kernel', message: String(e), featureIds: [] })),
+  ]);
+  if (!v.ok) return { result: v, meshedBeside: false, kernelCriticalMs: 0 };
+  if (d.ok && d.strategy === v.strategy && sameSignature(d.signature, v.signature) && meshMatchesVolume(d.mesh, v.verification.volumeMm3)) {
+    return {
+      result: {
+        ok: true,
+        mesh: d.mesh,
+        strategy: v.strategy,
+        verification: v.verification,
+        cached: v.cached,
+        buildMs: v.buildMs,
+        meshMs: d.meshMs,
+        heapBytes: v.heapBytes,
+      },
+      meshedBeside: true,
+      kernelCriticalMs: Math.max(v.buildMs, d.buildMs + d.meshMs),
+    };
+  }
+  // a different construction (the first choice failed its verification) or a broken mesh worker:
+  // mesh the verified solid itself (the first worker has it cached)
+  const result = await k.build(profile);
+  return { result, meshedBeside: false, kernelCriticalMs: result.ok ? v.buildMs + result.meshMs : 0 };
+}
+
 export function stopKernel(): void {
   worker?.terminate();
   worker = null;
+  meshWorker?.terminate();
+  meshWorker = null;
+  mesher = null;
+  mesherOff = false;
   remote = null;
   ready = null;
   last = null;

@@ -29,6 +29,7 @@
  *   tapped from the starter's side; starter recess `P1`.
  */
 import { DomainError } from './errors';
+import { featureDisc } from './layout';
 import { boltCircle } from './geometry/boltCircle';
 import { cosDeg, sinDeg } from './geometry/degrees';
 import { autoOutline, circleOutline, hullOfDiscs, outlineArea, outlineBBox, polygonOutline, type Disc } from './outline';
@@ -400,11 +401,7 @@ function resolveCentreBore(spec: PlateSpec): ResolvedFeature {
   });
 }
 
-/** The circle a round feature occupies in the plan view (its counterbore, if wider). */
-export function featureDisc(h: ProfileHole): Disc {
-  const d = Math.max(h.diameterMm, h.counterbore?.diameterMm ?? 0);
-  return { center: h.center, radiusMm: d / 2 };
-}
+export { featureDisc } from './layout';
 
 /**
  * Resolves the whole plate: the profile plus what the checks need (roles, fasteners, seats,

@@ -170,7 +170,7 @@ describe('kernel check page in Chromium', () => {
     await page.getByRole('tab', { name: '3D' }).click();
     const view = page.locator('[data-testid="plate-3d"][data-source="kernel"]');
     await view.waitFor({ timeout: 90_000 });
-    await expect(view.innerText()).resolves.toMatch(/CAD kernel solid, built in \d+ ms/);
+    await expect(view.innerText()).resolves.toMatch(/CAD kernel solid, verified, built in \d+ ms/);
     await page.waitForTimeout(300);
     await page.screenshot({ path: '.test-artifacts/screens/kernel-3d-1920.png' });
     // zoom in towards the centre bore and the holes around it
@@ -183,6 +183,22 @@ describe('kernel check page in Chromium', () => {
     await page.waitForTimeout(300);
     await page.screenshot({ path: '.test-artifacts/screens/kernel-3d-zoom-1920.png' });
     await expect(view.getAttribute('data-source')).resolves.toBe('kernel');
+
+    // edits: a second kernel worker (started after the first build from the first one's compiled
+    // module) meshes each edit while the first verifies it; the mesh is shown once they agree
+    await page.getByLabel('E1 X').click();
+    await page.keyboard.press('End');
+    let parallel: string | null = null;
+    for (let i = 0; i < 12 && parallel !== 'true'; i++) {
+      const before = await view.getAttribute('data-updates');
+      await page.keyboard.press(i % 2 === 0 ? '1' : 'Backspace');
+      await expect.poll(() => view.getAttribute('data-updates'), { timeout: 60_000 }).not.toBe(before);
+      await page.locator('[data-testid="rebuilding"]').waitFor({ state: 'detached', timeout: 60_000 });
+      parallel = await view.getAttribute('data-parallel');
+    }
+    expect(parallel).toBe('true');
+    expect(page.workers().filter((w) => /kernel\.worker/.test(w.url())).length).toBe(2);
+    await expect(view.innerText()).resolves.toMatch(/CAD kernel solid, verified, built in \d+ ms/);
     await context.close();
   });
 

@@ -12,13 +12,13 @@ export function MeasurementCloud({ cloud }: { cloud: { xyz: Float32Array; onFace
     let disposed = false;
     let cleanup = () => {};
     void (async () => {
-      const THREE = await import('three');
-      const { OrbitControls } = await import('three/examples/jsm/controls/OrbitControls.js');
+      const THREE = await import('../three/kit');
+      const { OrbitControls } = THREE;
       if (disposed || !host.current) return;
       const el = host.current;
       const width = el.clientWidth || 360;
       const height = 300;
-      let renderer: import('three').WebGLRenderer;
+      let renderer: import('../three/kit').WebGLRenderer;
       try {
         renderer = new THREE.WebGLRenderer({ antialias: true, preserveDrawingBuffer: true });
       } catch {

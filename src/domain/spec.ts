@@ -1,7 +1,9 @@
 /**
  * The plate spec: the one JSON document that describes an adapter plate. Stored with every
  * revision, edited by the plate editor, read by the CAD build and the exports. One zod schema
- * serves them all (`type PlateSpec = z.infer<typeof plateSpecSchema>`).
+ * serves them all (`type PlateSpec = z.infer<typeof plateSpecSchema>`). It is written with
+ * `zod/mini` (the same checks as classic zod, in functions a bundler can leave out when unused),
+ * because the plate editor ships it to the browser; server code may compose it in classic schemas.
  *
  * Every object is strict: an unknown field is rejected with its path (e.g.
  * `engineFace.holes.3.colour`), so a typo never silently drops a value.
@@ -16,7 +18,7 @@
  * Reserved for features the plate makes itself: `C1` (centre bore), `S1` (starter nose bore),
  * `P1` (starter pocket).
  */
-import { z } from 'zod';
+import { z } from 'zod/mini';
 import { DomainError } from './errors';
 import { HOLE_FLAGS } from './measure/holeQuality';
 import { stackUpInputsSchema } from './stackUp';
@@ -29,6 +31,10 @@ import { parseFastener } from './standards/threads';
 /** Feature ids the plate gives its own features. */
 export const RESERVED_FEATURE_IDS = Object.freeze({ centreBore: 'C1', starterBore: 'S1', starterPocket: 'P1' });
 
+// zod/mini loads no message language of its own: messages the spec does not word itself ("Too
+// small: …") are zod's English ones, as on the server, unless the app has chosen a language.
+if (!z.core.globalConfig.localeError) z.config(z.locales.en());
+
 /** An error message for a type-level check: "is required" when the field is missing. */
 function need(message: string): { error: (issue: { input?: unknown }) => string } {
   return { error: (issue) => (issue.input === undefined ? 'is required' : message) };
@@ -38,22 +44,24 @@ const ID_RE = /^[A-Za-z][A-Za-z0-9_-]{0,15}$/;
 
 const featureIdSchema = z
   .string(need('must be a feature id (text)'))
-  .regex(ID_RE, { error: 'must start with a letter and hold up to 16 letters, digits, "-" or "_" (e.g. "E1", "TD2")' });
+  .check(z.regex(ID_RE, { error: 'must start with a letter and hold up to 16 letters, digits, "-" or "_" (e.g. "E1", "TD2")' }));
 
 /** No length of an adapter plate comes near this; beyond it areas and masses lose all meaning (and overflow). */
 export const MAX_LENGTH_MM = 10_000;
 const mm = z
   .number(need('must be a number of millimetres'))
-  .min(-MAX_LENGTH_MM, { error: `must be within ±${MAX_LENGTH_MM} mm (10 m)` })
-  .max(MAX_LENGTH_MM, { error: `must be within ±${MAX_LENGTH_MM} mm (10 m)` });
-const positiveMm = mm.positive({ error: 'must be greater than 0 mm' });
-const nonNegativeMm = mm.min(0, { error: 'must be 0 mm or more' });
+  .check(
+    z.minimum(-MAX_LENGTH_MM, { error: `must be within ±${MAX_LENGTH_MM} mm (10 m)` }),
+    z.maximum(MAX_LENGTH_MM, { error: `must be within ±${MAX_LENGTH_MM} mm (10 m)` }),
+  );
+const positiveMm = mm.check(z.positive({ error: 'must be greater than 0 mm' }));
+const nonNegativeMm = mm.check(z.minimum(0, { error: 'must be 0 mm or more' }));
 const deg = z.number(need('must be a number of degrees'));
 const sideSchema = z.enum(['engine', 'transmission'], need('must be "engine" or "transmission"'));
-const noteSchema = z.string().max(500, { error: 'must be at most 500 characters' });
+const noteSchema = z.string().check(z.maxLength(500, { error: 'must be at most 500 characters' }));
 
 /** Calls a standards lookup inside a refinement; its DomainError message becomes the issue. */
-function lookupIssue(ctx: z.RefinementCtx, path: (string | number)[], fn: () => unknown): boolean {
+function lookupIssue(ctx: z.core.$RefinementCtx, path: (string | number)[], fn: () => unknown): boolean {
   try {
     fn();
     return true;
@@ -66,7 +74,7 @@ function lookupIssue(ctx: z.RefinementCtx, path: (string | number)[], fn: () => 
   }
 }
 
-const point2Schema = z.object({ x: mm, y: mm }).strict();
+const point2Schema = z.strictObject({ x: mm, y: mm });
 
 // ---------------------------------------------------------------------------------------------
 // Patterns and holes
@@ -82,67 +90,60 @@ const point2Schema = z.object({ x: mm, y: mm }).strict();
  * checks compare that with the common axis.
  */
 export const boltPatternSchema = z
-  .object({
+  .strictObject({
     id: featureIdSchema,
     diameterMm: positiveMm,
-    count: z.int(need('must be a whole number of holes')).min(1).max(360).optional(),
-    startAngleDeg: deg.optional(),
-    anglesDeg: z.array(deg).min(1, { error: 'must list at least one angle' }).max(360).optional(),
-    centerX: mm.default(0),
-    centerY: mm.default(0),
-    fitted: z
-      .object({
+    count: z.optional(z.int(need('must be a whole number of holes')).check(z.minimum(1), z.maximum(360))),
+    startAngleDeg: z.optional(deg),
+    anglesDeg: z.optional(z.array(deg).check(z.minLength(1, { error: 'must list at least one angle' }), z.maxLength(360))),
+    centerX: z._default(mm, 0),
+    centerY: z._default(mm, 0),
+    fitted: z.optional(
+      z.strictObject({
         centerX: mm,
         centerY: mm,
         rmsMm: nonNegativeMm,
-        fromUploadId: z.string().min(1).max(64).optional(),
+        fromUploadId: z.optional(z.string().check(z.minLength(1), z.maxLength(64))),
         /** RMS of the holes' angular positions about the pattern's best angles */
-        angularRmsDeg: z.number(need('must be a number of degrees')).min(0).optional(),
+        angularRmsDeg: z.optional(z.number(need('must be a number of degrees')).check(z.minimum(0))),
         /** measured holes the circle was fitted through */
-        holeCount: z.int(need('must be a whole number of holes')).min(1).max(360).optional(),
+        holeCount: z.optional(z.int(need('must be a whole number of holes')).check(z.minimum(1), z.maximum(360))),
         /** when a bore was fitted: the bolt circle centre's distance from the bore axis, TIR = 2 × offset */
-        bore: z
-          .object({
+        bore: z.optional(
+          z.strictObject({
             offsetMm: nonNegativeMm,
             tirMm: nonNegativeMm,
-            diameterMm: positiveMm.optional(),
-            cylindricityMm: nonNegativeMm.optional(),
-            tiltDeg: z.number(need('must be a number of degrees')).min(0).max(90).optional(),
-          })
-          .strict()
-          .optional(),
-      })
-      .strict()
-      .optional(),
-    note: noteSchema.optional(),
+            diameterMm: z.optional(positiveMm),
+            cylindricityMm: z.optional(nonNegativeMm),
+            tiltDeg: z.optional(z.number(need('must be a number of degrees')).check(z.minimum(0), z.maximum(90))),
+          }),
+        ),
+      }),
+    ),
+    note: z.optional(noteSchema),
   })
-  .strict()
-  .superRefine((p, ctx) => {
+  .check(z.superRefine((p, ctx) => {
     if ((p.count === undefined) === (p.anglesDeg === undefined)) {
       ctx.addIssue({ code: 'custom', message: 'give either count (with startAngleDeg) or anglesDeg, not both or neither', path: ['count'] });
     }
     if (p.anglesDeg !== undefined && p.startAngleDeg !== undefined) {
       ctx.addIssue({ code: 'custom', message: 'startAngleDeg goes with count; with anglesDeg give every angle', path: ['startAngleDeg'] });
     }
-  });
+  }));
 
 /** Counterbore for a bolt head. Diameter and depth default to the cap screw's (ISO 4762 / ASME B18.3). */
-export const counterboreSchema = z
-  .object({
-    /** side it is cut from; default: the side the bolt heads sit on */
-    side: sideSchema.optional(),
-    diameterMm: positiveMm.optional(),
-    depthMm: positiveMm.optional(),
-  })
-  .strict();
+export const counterboreSchema = z.strictObject({
+  /** side it is cut from; default: the side the bolt heads sit on */
+  side: z.optional(sideSchema),
+  diameterMm: z.optional(positiveMm),
+  depthMm: z.optional(positiveMm),
+});
 
-export const dowelSchema = z
-  .object({
-    diameterMm: positiveMm,
-    /** ISO 286 hole tolerance class of the reamed hole */
-    fit: z.string().trim().min(1).default('H7'),
-  })
-  .strict();
+export const dowelSchema = z.strictObject({
+  diameterMm: positiveMm,
+  /** ISO 286 hole tolerance class of the reamed hole */
+  fit: z._default(z.string().check(z.trim(), z.minLength(1)), 'H7'),
+});
 
 const clearanceClassSchema = z.enum(CLEARANCE_CLASSES as [ClearanceClass, ...ClearanceClass[]], need('must be one of fine, medium, coarse (ISO 273) or close, normal, loose (ASME B18.2.8)'));
 
@@ -152,18 +153,18 @@ const holeFields = {
   /** clearance: a bolt passes; tapped: the plate is threaded; dowel: reamed for a dowel pin; stud: a flange stud passes */
   role: z.enum(['clearance', 'tapped', 'dowel', 'stud'], need('must be "clearance", "tapped", "dowel" or "stud"')),
   /** e.g. "M10x1.5", "M10", "3/8-16 UNC", "3/8" */
-  fastener: z.string().trim().min(1, { error: 'must name a fastener, e.g. "M10x1.5" or "3/8-16 UNC"' }).optional(),
+  fastener: z.optional(z.string().check(z.trim(), z.minLength(1, { error: 'must name a fastener, e.g. "M10x1.5" or "3/8-16 UNC"' }))),
   /** clearance holes; default medium (metric) / normal (inch) */
-  clearanceClass: clearanceClassSchema.optional(),
+  clearanceClass: z.optional(clearanceClassSchema),
   /** explicit hole diameter (clearance or tap drill), overrides the table */
-  diameterMm: positiveMm.optional(),
-  counterbore: counterboreSchema.optional(),
+  diameterMm: z.optional(positiveMm),
+  counterbore: z.optional(counterboreSchema),
   /** tapped holes: usable thread length; default the full hole depth */
-  threadDepthMm: positiveMm.optional(),
-  dowel: dowelSchema.optional(),
+  threadDepthMm: z.optional(positiveMm),
+  dowel: z.optional(dowelSchema),
   /** blind hole depth from the face's own side; omitted = through */
-  depthMm: positiveMm.optional(),
-  note: noteSchema.optional(),
+  depthMm: z.optional(positiveMm),
+  note: z.optional(noteSchema),
 } as const;
 
 type HoleFields = {
@@ -178,7 +179,7 @@ type HoleFields = {
 };
 
 /** Role-dependent rules of a hole, with each issue on the field that breaks it. */
-function refineHoleRole(h: HoleFields, ctx: z.RefinementCtx): void {
+function refineHoleRole(h: HoleFields, ctx: z.core.$RefinementCtx): void {
   const forbid = (field: keyof HoleFields, why: string) => {
     if (h[field] !== undefined) ctx.addIssue({ code: 'custom', message: why, path: [field] });
   };
@@ -230,39 +231,38 @@ function refineHoleRole(h: HoleFields, ctx: z.RefinementCtx): void {
  * (measured − standard) and the upload. Written when a measured pattern is applied; the hole's
  * place and size are still its other fields.
  */
-export const measuredHoleSchema = z
-  .object({
-    fromUploadId: z.string(need('must be the id of the upload (text)')).min(1).max(64),
-    centerU: mm,
-    centerV: mm,
-    diameterMm: positiveMm,
-    rmsMm: nonNegativeMm,
-    roundnessMm: nonNegativeMm,
-    points: z.int(need('must be a whole number of points')).min(0),
-    arcCoverageDeg: deg.min(0).max(360),
-    flags: z.array(z.enum(HOLE_FLAGS, need(`must be one of ${HOLE_FLAGS.join(', ')}`)), need('must be a list of flags (may be empty)')).max(HOLE_FLAGS.length),
-    nearest: z.object({ label: z.string().min(1).max(80), differenceMm: mm }).strict().optional(),
-    /** the hole's distance off the fitted bolt circle (+ outside) and its angle off the pattern's slot */
-    radialDeviationMm: mm.optional(),
-    angleDeviationDeg: deg.optional(),
-  })
-  .strict();
+export const measuredHoleSchema = z.strictObject({
+  fromUploadId: z.string(need('must be the id of the upload (text)')).check(z.minLength(1), z.maxLength(64)),
+  centerU: mm,
+  centerV: mm,
+  diameterMm: positiveMm,
+  rmsMm: nonNegativeMm,
+  roundnessMm: nonNegativeMm,
+  points: z.int(need('must be a whole number of points')).check(z.minimum(0)),
+  arcCoverageDeg: deg.check(z.minimum(0), z.maximum(360)),
+  flags: z
+    .array(z.enum(HOLE_FLAGS, need(`must be one of ${HOLE_FLAGS.join(', ')}`)), need('must be a list of flags (may be empty)'))
+    .check(z.maxLength(HOLE_FLAGS.length)),
+  nearest: z.optional(z.strictObject({ label: z.string().check(z.minLength(1), z.maxLength(80)), differenceMm: mm })),
+  /** the hole's distance off the fitted bolt circle (+ outside) and its angle off the pattern's slot */
+  radialDeviationMm: z.optional(mm),
+  angleDeviationDeg: z.optional(deg),
+});
 
 /**
  * A hole of one flange pattern: at `x, y` (face coordinates, as measured) or at slot `index`
  * (0-based) of bolt circle `patternId` of the same face.
  */
 export const holeSchema = z
-  .object({
+  .strictObject({
     ...holeFields,
-    fitted: measuredHoleSchema.optional(),
-    x: mm.optional(),
-    y: mm.optional(),
-    patternId: featureIdSchema.optional(),
-    index: z.int(need('must be a whole number (0 = the first hole of the pattern)')).min(0).optional(),
+    fitted: z.optional(measuredHoleSchema),
+    x: z.optional(mm),
+    y: z.optional(mm),
+    patternId: z.optional(featureIdSchema),
+    index: z.optional(z.int(need('must be a whole number (0 = the first hole of the pattern)')).check(z.minimum(0))),
   })
-  .strict()
-  .superRefine((h, ctx) => {
+  .check(z.superRefine((h, ctx) => {
     const byXY = h.x !== undefined || h.y !== undefined;
     const byPattern = h.patternId !== undefined || h.index !== undefined;
     if (byXY && byPattern) {
@@ -279,7 +279,7 @@ export const holeSchema = z
       ctx.addIssue({ code: 'custom', message: 'a hole needs a place: x and y, or patternId and index', path: ['x'] });
     }
     refineHoleRole(h, ctx);
-  });
+  }));
 
 /**
  * The contact region of a flange on the plate, used to find bolt heads that would sit under it.
@@ -289,34 +289,33 @@ export const holeSchema = z
 export const flangeFootprintSchema = z.discriminatedUnion(
   'kind',
   [
-    z.object({ kind: z.literal('hull'), marginMm: nonNegativeMm.default(10) }).strict(),
-    z.object({ kind: z.literal('polygon'), points: z.array(point2Schema).min(3, { error: 'needs at least 3 points' }) }).strict(),
+    z.strictObject({ kind: z.literal('hull'), marginMm: z._default(nonNegativeMm, 10) }),
+    z.strictObject({ kind: z.literal('polygon'), points: z.array(point2Schema).check(z.minLength(3, { error: 'needs at least 3 points' })) }),
   ],
   need('kind must be "hull" or "polygon"'),
 );
 
 /** One flange (engine rear face or transmission bell-housing face) as measured. */
 export const faceSchema = z
-  .object({
+  .strictObject({
     /**
      * How the coordinates were taken: `rear` = already in plate coordinates (looking forward,
      * e.g. at the engine's rear face); `front` = looking rearward at the face (e.g. at the bell
      * housing's mating face) — mirrored x → −x onto the plate.
      */
     viewedFrom: z.enum(['rear', 'front'], need('must be "rear" (plate coordinates) or "front" (mirrored onto the plate)')),
-    description: z.string().max(200).optional(),
-    patterns: z.array(boltPatternSchema).default([]),
-    holes: z.array(holeSchema).default([]),
+    description: z.optional(z.string().check(z.maxLength(200))),
+    patterns: z._default(z.array(boltPatternSchema), []),
+    holes: z._default(z.array(holeSchema), []),
     /**
      * Side of the plate the bolt heads of this face's clearance holes sit on. Default: the other
      * side (an engine-face bolt comes from the transmission side and threads into the block).
      * The face's own side means the bolt comes through the flange and a nut sits on the other side.
      */
-    boltHeadSide: sideSchema.optional(),
-    flangeFootprint: flangeFootprintSchema.prefault({ kind: 'hull' }),
+    boltHeadSide: z.optional(sideSchema),
+    flangeFootprint: z.prefault(flangeFootprintSchema, { kind: 'hull' }),
   })
-  .strict()
-  .superRefine((f, ctx) => {
+  .check(z.superRefine((f, ctx) => {
     const patterns = new Map<string, number>();
     f.patterns.forEach((p, i) => {
       if (patterns.has(p.id)) {
@@ -351,33 +350,31 @@ export const faceSchema = z
         });
       } else taken.set(slot, i);
     });
-  });
+  }));
 
 // ---------------------------------------------------------------------------------------------
 // Centre bore, starter
 // ---------------------------------------------------------------------------------------------
 
 const limitsSchema = z
-  .object({ lowerMm: positiveMm, upperMm: positiveMm })
-  .strict()
-  .refine((l) => l.upperMm >= l.lowerMm, { error: 'upperMm must not be below lowerMm', path: ['upperMm'] });
+  .strictObject({ lowerMm: positiveMm, upperMm: positiveMm })
+  .check(z.refine((l) => l.upperMm >= l.lowerMm, { error: 'upperMm must not be below lowerMm', path: ['upperMm'] }));
 
 /**
  * The centre bore: `bore` = clearance for the crank flange / rear seal; `register` = a locating
  * bore that a spigot fits into (give its fit or its size limits).
  */
 export const centreBoreSchema = z
-  .object({
+  .strictObject({
     kind: z.enum(['bore', 'register'], need('must be "bore" or "register"')),
     diameterMm: positiveMm,
     /** ISO 286 hole class, e.g. "H7" */
-    fit: z.string().trim().min(1).optional(),
+    fit: z.optional(z.string().check(z.trim(), z.minLength(1))),
     /** explicit size limits (e.g. from a housing standard), instead of an ISO class */
-    limitsMm: limitsSchema.optional(),
-    note: noteSchema.optional(),
+    limitsMm: z.optional(limitsSchema),
+    note: z.optional(noteSchema),
   })
-  .strict()
-  .superRefine((c, ctx) => {
+  .check(z.superRefine((c, ctx) => {
     if (c.fit !== undefined && c.limitsMm !== undefined) {
       ctx.addIssue({ code: 'custom', message: 'give fit or limitsMm, not both', path: ['limitsMm'] });
     }
@@ -385,11 +382,11 @@ export const centreBoreSchema = z
       ctx.addIssue({ code: 'custom', message: 'a register locates: give its fit (e.g. "H7") or limitsMm', path: ['fit'] });
     }
     if (c.fit !== undefined) lookupIssue(ctx, ['fit'], () => isoTolerance(c.diameterMm, c.fit!));
-  });
+  }));
 
 /** A starter mounting hole, placed relative to the nose bore centre along the starter's radial line. */
 export const starterHoleSchema = z
-  .object({
+  .strictObject({
     id: featureIdSchema,
     role: z.enum(['clearance', 'tapped'], need('must be "clearance" or "tapped"')),
     fastener: holeFields.fastener,
@@ -404,60 +401,54 @@ export const starterHoleSchema = z
     tangentialMm: mm,
     note: holeFields.note,
   })
-  .strict()
-  .superRefine((h, ctx) => refineHoleRole(h, ctx));
+  .check(z.superRefine((h, ctx) => refineHoleRole(h, ctx)));
 
 /** Starter recess (pocket) around the nose bore: a circle, or a slot whose long axis is tangential. */
-export const starterRecessSchema = z
-  .object({
-    depthMm: positiveMm,
-    /** default: the side the starter sits on */
-    side: sideSchema.optional(),
-    shape: z.discriminatedUnion(
-      'kind',
-      [
-        z.object({ kind: z.literal('circle'), diameterMm: positiveMm }).strict(),
-        z
-          .object({ kind: z.literal('slot'), widthMm: positiveMm, lengthMm: positiveMm })
-          .strict()
-          .refine((s) => s.lengthMm >= s.widthMm, { error: 'lengthMm must be at least widthMm', path: ['lengthMm'] }),
-      ],
-      need('kind must be "circle" or "slot"'),
-    ),
-  })
-  .strict();
+export const starterRecessSchema = z.strictObject({
+  depthMm: positiveMm,
+  /** default: the side the starter sits on */
+  side: z.optional(sideSchema),
+  shape: z.discriminatedUnion(
+    'kind',
+    [
+      z.strictObject({ kind: z.literal('circle'), diameterMm: positiveMm }),
+      z
+        .strictObject({ kind: z.literal('slot'), widthMm: positiveMm, lengthMm: positiveMm })
+        .check(z.refine((s) => s.lengthMm >= s.widthMm, { error: 'lengthMm must be at least widthMm', path: ['lengthMm'] })),
+    ],
+    need('kind must be "circle" or "slot"'),
+  ),
+});
 
 export const starterSchema = z
-  .object({
+  .strictObject({
     /** side of the plate the starter body sits on */
-    side: sideSchema.default('engine'),
+    side: z._default(sideSchema, 'engine'),
     ringGear: z
-      .object({
-        teeth: z.int(need('must be a whole number of teeth')).min(20).max(400),
-        moduleMm: positiveMm.optional(),
-        diametralPitch: z.number().positive({ error: 'must be greater than 0 (teeth per inch of pitch diameter)' }).optional(),
+      .strictObject({
+        teeth: z.int(need('must be a whole number of teeth')).check(z.minimum(20), z.maximum(400)),
+        moduleMm: z.optional(positiveMm),
+        diametralPitch: z.optional(z.number().check(z.positive({ error: 'must be greater than 0 (teeth per inch of pitch diameter)' }))),
       })
-      .strict()
-      .superRefine((g, ctx) => {
+      .check(z.superRefine((g, ctx) => {
         if ((g.moduleMm === undefined) === (g.diametralPitch === undefined)) {
           ctx.addIssue({ code: 'custom', message: 'give either moduleMm (metric) or diametralPitch (inch), not both or neither', path: ['moduleMm'] });
         }
-      }),
-    pinion: z.object({ teeth: z.int(need('must be a whole number of teeth')).min(5).max(40) }).strict(),
+      })),
+    pinion: z.strictObject({ teeth: z.int(need('must be a whole number of teeth')).check(z.minimum(5), z.maximum(40)) }),
     /** position of the nose bore around the crank axis, plate coordinates, CCW from +X */
     angleDeg: deg,
     /** where the nose bore centre is actually put from the axis; default: the gear centre distance */
-    centreDistanceMm: positiveMm.optional(),
+    centreDistanceMm: z.optional(positiveMm),
     noseBoreDiameterMm: positiveMm,
     /** ISO 286 hole class of the nose bore, e.g. "H8" */
-    noseFit: z.string().trim().min(1).optional(),
-    mountingHoles: z.array(starterHoleSchema).default([]),
-    recess: starterRecessSchema.optional(),
+    noseFit: z.optional(z.string().check(z.trim(), z.minLength(1))),
+    mountingHoles: z._default(z.array(starterHoleSchema), []),
+    recess: z.optional(starterRecessSchema),
   })
-  .strict()
-  .superRefine((s, ctx) => {
+  .check(z.superRefine((s, ctx) => {
     if (s.noseFit !== undefined) lookupIssue(ctx, ['noseFit'], () => isoTolerance(s.noseBoreDiameterMm, s.noseFit!));
-  });
+  }));
 
 // ---------------------------------------------------------------------------------------------
 // Outline, material, tolerances, the whole plate
@@ -466,92 +457,83 @@ export const starterSchema = z
 export const outlineSchema = z.discriminatedUnion(
   'kind',
   [
-    z
-      .object({
-        kind: z.literal('auto'),
-        /** material kept around every feature */
-        edgeMarginMm: nonNegativeMm.default(12),
-        /** smallest corner radius of the plate */
-        cornerRadiusMm: nonNegativeMm.default(10),
-      })
-      .strict(),
-    z
-      .object({
-        kind: z.literal('polygon'),
-        /** corners in plate coordinates (either direction) */
-        points: z.array(point2Schema).min(3, { error: 'needs at least 3 corners' }),
-        cornerRadiusMm: nonNegativeMm.default(0),
-        /** radius of each corner in the order of `points` (0 = sharp); a missing one takes cornerRadiusMm */
-        cornerRadiiMm: z.array(nonNegativeMm.nullable()).optional(),
-      })
-      .strict(),
+    z.strictObject({
+      kind: z.literal('auto'),
+      /** material kept around every feature */
+      edgeMarginMm: z._default(nonNegativeMm, 12),
+      /** smallest corner radius of the plate */
+      cornerRadiusMm: z._default(nonNegativeMm, 10),
+    }),
+    z.strictObject({
+      kind: z.literal('polygon'),
+      /** corners in plate coordinates (either direction) */
+      points: z.array(point2Schema).check(z.minLength(3, { error: 'needs at least 3 corners' })),
+      cornerRadiusMm: z._default(nonNegativeMm, 0),
+      /** radius of each corner in the order of `points` (0 = sharp); a missing one takes cornerRadiusMm */
+      cornerRadiiMm: z.optional(z.array(z.nullable(nonNegativeMm))),
+    }),
   ],
   need('kind must be "auto" or "polygon"'),
 );
 
-export const materialSchema = z
-  .object({
-    name: z.string().trim().min(1).max(60),
-    densityGPerCm3: z.number().positive({ error: 'must be greater than 0 g/cm³' }).max(25),
-    yieldMpa: z.number().positive({ error: 'must be greater than 0 MPa' }).optional(),
-    kind: z.enum(['aluminium', 'steel', 'castIron', 'other'], need('must be "aluminium", "steel", "castIron" or "other"')),
-  })
-  .strict();
+export const materialSchema = z.strictObject({
+  name: z.string().check(z.trim(), z.minLength(1), z.maxLength(60)),
+  densityGPerCm3: z.number().check(z.positive({ error: 'must be greater than 0 g/cm³' }), z.maximum(25)),
+  yieldMpa: z.optional(z.number().check(z.positive({ error: 'must be greater than 0 MPa' }))),
+  kind: z.enum(['aluminium', 'steel', 'castIron', 'other'], need('must be "aluminium", "steel", "castIron" or "other"')),
+});
 
 /** 6061-T6: density 2.70 g/cm³, yield 276 MPa (Aluminum Association typical values). */
 export const DEFAULT_MATERIAL = Object.freeze({ name: '6061-T6', densityGPerCm3: 2.7, yieldMpa: 276, kind: 'aluminium' as const });
 
-export const tolerancesSchema = z
-  .object({
-    /** allowed runout of the transmission axis on the crank axis, total indicator reading */
-    alignmentTirMm: positiveMm.default(0.127),
-    /** ± on dimensions without their own tolerance */
-    generalMm: positiveMm.default(0.1),
-    /** diameter of the position tolerance zone of holes */
-    holePositionMm: positiveMm.default(0.1),
-    /** ± on the plate thickness */
-    thicknessMm: positiveMm.default(0.05),
-    flatnessMm: positiveMm.default(0.05),
-  })
-  .strict();
+export const tolerancesSchema = z.strictObject({
+  /** allowed runout of the transmission axis on the crank axis, total indicator reading */
+  alignmentTirMm: z._default(positiveMm, 0.127),
+  /** ± on dimensions without their own tolerance */
+  generalMm: z._default(positiveMm, 0.1),
+  /** diameter of the position tolerance zone of holes */
+  holePositionMm: z._default(positiveMm, 0.1),
+  /** ± on the plate thickness */
+  thicknessMm: z._default(positiveMm, 0.05),
+  flatnessMm: z._default(positiveMm, 0.05),
+});
 
 export const plateSpecSchema = z
-  .object({
+  .strictObject({
     schemaVersion: z.literal(1, need('must be 1 (this version of the plate spec)')),
-    displayUnits: z
-      .object({
-        length: z.enum(['mm', 'in'], need('must be "mm" or "in"')).default('mm'),
+    displayUnits: z.prefault(
+      z.strictObject({
+        length: z._default(z.enum(['mm', 'in'], need('must be "mm" or "in"')), 'mm'),
         /** inch values as fractions to 1/64 */
-        fractions: z.boolean().default(false),
-      })
-      .strict()
-      .prefault({}),
-    datum: z
-      .object({
+        fractions: z._default(z.boolean(), false),
+      }),
+      {},
+    ),
+    datum: z.prefault(
+      z.strictObject({
         /** the plate's origin: always the crankshaft axis */
-        origin: z.literal('crankshaftAxis', need('must be "crankshaftAxis"')).default('crankshaftAxis'),
-        note: noteSchema.optional(),
-      })
-      .strict()
-      .prefault({}),
-    partLabel: z.string().trim().min(1).max(40).optional(),
+        origin: z._default(z.literal('crankshaftAxis', need('must be "crankshaftAxis"')), 'crankshaftAxis'),
+        note: z.optional(noteSchema),
+      }),
+      {},
+    ),
+    partLabel: z.optional(z.string().check(z.trim(), z.minLength(1), z.maxLength(40))),
     engineFace: faceSchema,
     transmissionFace: faceSchema,
     centreBore: centreBoreSchema,
-    starter: starterSchema.optional(),
-    thicknessMm: positiveMm.max(200, { error: 'must be at most 200 mm' }),
+    starter: z.optional(starterSchema),
+    thicknessMm: positiveMm.check(z.maximum(200, { error: 'must be at most 200 mm' })),
     /** which stock sizes the thickness is compared with */
-    thicknessStock: z.enum(['metric', 'inch', 'any'], need('must be "metric", "inch" or "any"')).default('any'),
-    stackUp: stackUpInputsSchema.optional(),
-    outline: outlineSchema.prefault({ kind: 'auto' }),
+    thicknessStock: z._default(z.enum(['metric', 'inch', 'any'], need('must be "metric", "inch" or "any"')), 'any'),
+    stackUp: z.optional(stackUpInputsSchema),
+    outline: z.prefault(outlineSchema, { kind: 'auto' }),
     /** 45° chamfer on both outer edges; 0 = sharp edges broken by hand */
-    edgeChamferMm: nonNegativeMm.default(0),
-    material: materialSchema.default(DEFAULT_MATERIAL),
-    tolerances: tolerancesSchema.prefault({}),
-    notes: z.string().max(4000).optional(),
+    edgeChamferMm: z._default(nonNegativeMm, 0),
+    material: z._default(materialSchema, DEFAULT_MATERIAL),
+    tolerances: z.prefault(tolerancesSchema, {}),
+    notes: z.optional(z.string().check(z.maxLength(4000))),
   })
-  .strict()
-  .superRefine((s, ctx) => {
+  .check(z.superRefine((s, ctx) => {
     const reserved = new Set<string>(Object.values(RESERVED_FEATURE_IDS));
     const seen = new Map<string, string>();
     const claim = (id: string, path: (string | number)[]) => {
@@ -576,7 +558,7 @@ export const plateSpecSchema = z
         path: ['edgeChamferMm'],
       });
     }
-  });
+  }));
 
 export type PlateSpec = z.infer<typeof plateSpecSchema>;
 /** What a person or a program may write: defaults not filled in yet. */
@@ -596,7 +578,7 @@ export interface SpecIssue {
 }
 
 /** Every problem of a failed parse, one per field, unknown fields named by their own path. */
-export function specIssues(error: z.ZodError): SpecIssue[] {
+export function specIssues(error: z.core.$ZodError): SpecIssue[] {
   const out: SpecIssue[] = [];
   for (const issue of error.issues) {
     const base = issue.path.filter((p): p is string | number => typeof p !== 'symbol');

@@ -16,9 +16,13 @@
  * (plus − minus)/2) with a half band of √Σ((plus + minus)/2)²; each dimension's share of
  * variance is its squared half band over the sum.
  */
-import { z } from 'zod';
+import { z } from 'zod/mini';
 import { DomainError } from './errors';
 import { formatLength } from './units';
+
+// zod/mini loads no message language of its own: the stack-up's default messages are zod's
+// English ones, as on the server, unless the app has already chosen a language.
+if (!z.core.globalConfig.localeError) z.config(z.locales.en());
 
 export interface StackDimension {
   readonly name: string;
@@ -101,13 +105,11 @@ export function stackUp(chain: readonly StackDimension[]): StackUpResult {
 // Inputs
 
 /** A measured or specified length with its tolerance band, mm. */
-export const tolerancedLengthSchema = z
-  .object({
-    nominalMm: z.number(),
-    plusMm: z.number().min(0).default(0),
-    minusMm: z.number().min(0).default(0),
-  })
-  .strict();
+export const tolerancedLengthSchema = z.strictObject({
+  nominalMm: z.number(),
+  plusMm: z._default(z.number().check(z.minimum(0)), 0),
+  minusMm: z._default(z.number().check(z.minimum(0)), 0),
+});
 export type TolerancedLength = z.output<typeof tolerancedLengthSchema>;
 
 /**
@@ -115,19 +117,17 @@ export type TolerancedLength = z.output<typeof tolerancedLengthSchema>;
  * flywheel friction face must end up where the transmission expects it.
  *   thickness = crankFlangePosition + flywheelDepth − requiredBellFaceToFrictionFace − spacer
  */
-export const plateThicknessInputSchema = z
-  .object({
-    /** flywheel mounting face of the crank flange, rearward of the block face */
-    crankFlangePositionMm: tolerancedLengthSchema,
-    /** flywheel friction face, rearward of the crank flange face */
-    flywheelDepthMm: tolerancedLengthSchema,
-    /** the transmission's requirement: friction face rearward of its bell housing mating face */
-    requiredBellFaceToFrictionFaceMm: tolerancedLengthSchema,
-    spacerMm: tolerancedLengthSchema.optional(),
-    /** thinnest plate the builder accepts (optional) */
-    minimumThicknessMm: z.number().positive().optional(),
-  })
-  .strict();
+export const plateThicknessInputSchema = z.strictObject({
+  /** flywheel mounting face of the crank flange, rearward of the block face */
+  crankFlangePositionMm: tolerancedLengthSchema,
+  /** flywheel friction face, rearward of the crank flange face */
+  flywheelDepthMm: tolerancedLengthSchema,
+  /** the transmission's requirement: friction face rearward of its bell housing mating face */
+  requiredBellFaceToFrictionFaceMm: tolerancedLengthSchema,
+  spacerMm: z.optional(tolerancedLengthSchema),
+  /** thinnest plate the builder accepts (optional) */
+  minimumThicknessMm: z.optional(z.number().check(z.positive())),
+});
 
 /**
  * Input shaft pilot in the pilot bearing. The pilot tip sits at
@@ -136,21 +136,20 @@ export const plateThicknessInputSchema = z
  *   clearance to bottoming = z_tip − pilotBoreBottom
  */
 export const pilotInputSchema = z
-  .object({
+  .strictObject({
     plateThicknessMm: tolerancedLengthSchema,
-    spacerMm: tolerancedLengthSchema.optional(),
+    spacerMm: z.optional(tolerancedLengthSchema),
     /** entry (rear) face of the pilot bearing, rearward of the block face */
     pilotBearingRearFaceMm: tolerancedLengthSchema,
     /** deepest point the tip may reach (bore bottom or stop), rearward of the block face */
     pilotBoreBottomMm: tolerancedLengthSchema,
     /** the input shaft's pilot tip, FORWARD of the bell housing mating face */
     pilotProtrusionMm: tolerancedLengthSchema,
-    minimumEngagementMm: z.number().min(0),
+    minimumEngagementMm: z.number().check(z.minimum(0)),
     /** least gap between tip and bottom; default 0 (any gap) */
-    minimumBottomClearanceMm: z.number().min(0).default(0),
+    minimumBottomClearanceMm: z._default(z.number().check(z.minimum(0)), 0),
   })
-  .strict()
-  .superRefine((v, ctx) => {
+  .check(z.superRefine((v, ctx) => {
     if (v.pilotBoreBottomMm.nominalMm >= v.pilotBearingRearFaceMm.nominalMm) {
       ctx.addIssue({
         code: 'custom',
@@ -158,7 +157,7 @@ export const pilotInputSchema = z
         message: 'the bore bottom must lie forward of (smaller than) the pilot bearing rear face',
       });
     }
-  });
+  }));
 
 export const starterMountReferenceSchema = z.enum(['blockFace', 'plateRear', 'bellFace']);
 
@@ -170,27 +169,24 @@ export const starterMountReferenceSchema = z.enum(['blockFace', 'plateRear', 'be
  * Overlap of the pinion [offset, offset + pinionWidth] with the ring gear [0, ringWidth].
  */
 export const starterLandingInputSchema = z
-  .object({
+  .strictObject({
     crankFlangePositionMm: tolerancedLengthSchema,
     /** front edge of the ring gear teeth, rearward of the crank flange face */
     ringGearFrontFromCrankFlangeMm: tolerancedLengthSchema,
-    ringGearFaceWidthMm: z.number().positive(),
-    starterMount: z
-      .object({
-        reference: starterMountReferenceSchema,
-        /** starter mounting face, rearward of the reference (negative: forward, e.g. a pocket floor) */
-        offsetMm: tolerancedLengthSchema,
-      })
-      .strict(),
-    plateThicknessMm: tolerancedLengthSchema.optional(),
-    spacerMm: tolerancedLengthSchema.optional(),
+    ringGearFaceWidthMm: z.number().check(z.positive()),
+    starterMount: z.strictObject({
+      reference: starterMountReferenceSchema,
+      /** starter mounting face, rearward of the reference (negative: forward, e.g. a pocket floor) */
+      offsetMm: tolerancedLengthSchema,
+    }),
+    plateThicknessMm: z.optional(tolerancedLengthSchema),
+    spacerMm: z.optional(tolerancedLengthSchema),
     /** front face of the engaged pinion, rearward of the starter mounting face */
     engagedPinionFrontFromMountMm: tolerancedLengthSchema,
-    pinionFaceWidthMm: z.number().positive(),
-    minimumEngagementMm: z.number().min(0),
+    pinionFaceWidthMm: z.number().check(z.positive()),
+    minimumEngagementMm: z.number().check(z.minimum(0)),
   })
-  .strict()
-  .superRefine((v, ctx) => {
+  .check(z.superRefine((v, ctx) => {
     if (v.starterMount.reference !== 'blockFace' && v.plateThicknessMm === undefined) {
       ctx.addIssue({
         code: 'custom',
@@ -198,7 +194,7 @@ export const starterLandingInputSchema = z
         message: `needed when the starter mounts to the ${v.starterMount.reference === 'plateRear' ? "plate's rear face" : 'bell housing face'}`,
       });
     }
-  });
+  }));
 
 /**
  * Clutch release bearing. Finger (diaphragm tip) positions are measured with the clutch engaged
@@ -207,9 +203,9 @@ export const starterLandingInputSchema = z
  *   travel to disengage = (plate + spacer + bearingRestFromBellFace) − (crankFlange + flywheelDepth + fingersDisengaged)
  */
 export const releaseBearingInputSchema = z
-  .object({
+  .strictObject({
     plateThicknessMm: tolerancedLengthSchema,
-    spacerMm: tolerancedLengthSchema.optional(),
+    spacerMm: z.optional(tolerancedLengthSchema),
     crankFlangePositionMm: tolerancedLengthSchema,
     flywheelDepthMm: tolerancedLengthSchema,
     /** finger contact plane, rearward of the friction face, clutch engaged */
@@ -219,12 +215,11 @@ export const releaseBearingInputSchema = z
     /** release bearing face at rest, rearward of the bell housing mating face */
     bearingRestFromBellFaceMm: tolerancedLengthSchema,
     /** stroke of the bearing (fork or slave cylinder) from rest */
-    availableTravelMm: z.number().positive(),
+    availableTravelMm: z.number().check(z.positive()),
     /** least gap at rest; default 0. Negative for a bearing designed to run preloaded. */
-    minimumClearanceMm: z.number().default(0),
+    minimumClearanceMm: z._default(z.number(), 0),
   })
-  .strict()
-  .superRefine((v, ctx) => {
+  .check(z.superRefine((v, ctx) => {
     if (v.fingersDisengagedFromFrictionFaceMm.nominalMm >= v.fingersEngagedFromFrictionFaceMm.nominalMm) {
       ctx.addIssue({
         code: 'custom',
@@ -232,16 +227,14 @@ export const releaseBearingInputSchema = z
         message: 'the fingers move forward to disengage: the disengaged position must be smaller than the engaged one',
       });
     }
-  });
+  }));
 
-export const stackUpInputsSchema = z
-  .object({
-    plateThickness: plateThicknessInputSchema.optional(),
-    pilot: pilotInputSchema.optional(),
-    starterLanding: starterLandingInputSchema.optional(),
-    releaseBearing: releaseBearingInputSchema.optional(),
-  })
-  .strict();
+export const stackUpInputsSchema = z.strictObject({
+  plateThickness: z.optional(plateThicknessInputSchema),
+  pilot: z.optional(pilotInputSchema),
+  starterLanding: z.optional(starterLandingInputSchema),
+  releaseBearing: z.optional(releaseBearingInputSchema),
+});
 
 export type StackUpInputs = z.input<typeof stackUpInputsSchema>;
 export type PlateThicknessInput = z.input<typeof plateThicknessInputSchema>;
@@ -290,7 +283,7 @@ export interface StackUpEvaluation {
   readonly releaseBearing?: ReleaseBearingVerdict;
 }
 
-function parse<S extends z.ZodType>(schema: S, input: unknown, root: string): z.output<S> {
+function parse<S extends z.ZodMiniType>(schema: S, input: unknown, root: string): z.output<S> {
   const r = schema.safeParse(input);
   if (r.success) return r.data;
   const issues = r.error.issues.map((i) => {

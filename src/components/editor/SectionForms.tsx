@@ -1,50 +1,64 @@
 import { useEffect, useRef, type ReactNode } from 'react';
 import { useForm, type FieldValues, type Path, type UseFormReturn } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { z } from 'zod';
+import { z } from 'zod/mini';
 import { centreBoreSchema, materialSchema, type PlateSpecInput } from '~/domain';
 import { STOCK_THICKNESSES } from '~/domain/stockThickness';
 import { bothUnits, editText, readLength, type DisplayUnits } from '~/domain/editor/units';
 import type { Commit } from './HoleTable';
 
+/** An issue of a text field's reading (zod/mini hands a transform the bare parse payload). */
+function addIssue(ctx: z.core.ParsePayload, message: string): void {
+  ctx.issues.push({ code: 'custom', message, input: ctx.value });
+}
+
 /** A text field read as a length in the display unit; the message names what is wrong. */
 export function lengthText(units: DisplayUnits, opts: { positive?: boolean; min?: number } = {}) {
-  return z.string().transform((t, ctx): number => {
-    const v = readLength(t, units, opts);
-    if (!v.ok) {
-      ctx.addIssue({ code: 'custom', message: v.message });
-      return z.NEVER;
-    }
-    return v.mm;
-  });
+  return z.pipe(
+    z.string(),
+    z.transform((t: string, ctx): number => {
+      const v = readLength(t, units, opts);
+      if (!v.ok) {
+        addIssue(ctx, v.message);
+        return z.NEVER;
+      }
+      return v.mm;
+    }),
+  );
 }
 
 /** The same; an empty field means "none". */
 export function optionalLengthText(units: DisplayUnits, opts: { positive?: boolean; min?: number } = {}) {
-  return z.string().transform((t, ctx): number | undefined => {
-    if (t.trim() === '') return undefined;
-    const v = readLength(t, units, opts);
-    if (!v.ok) {
-      ctx.addIssue({ code: 'custom', message: v.message });
-      return z.NEVER;
-    }
-    return v.mm;
-  });
+  return z.pipe(
+    z.string(),
+    z.transform((t: string, ctx): number | undefined => {
+      if (t.trim() === '') return undefined;
+      const v = readLength(t, units, opts);
+      if (!v.ok) {
+        addIssue(ctx, v.message);
+        return z.NEVER;
+      }
+      return v.mm;
+    }),
+  );
 }
 
 const numberText = (what: string, opts: { int?: boolean; positive?: boolean; min?: number; max?: number } = {}) =>
-  z.string().transform((t, ctx) => {
-    const n = Number(t.trim());
-    if (t.trim() === '' || !Number.isFinite(n)) {
-      ctx.addIssue({ code: 'custom', message: `enter ${what} as a number` });
-      return z.NEVER;
-    }
-    if (opts.int && !Number.isInteger(n)) ctx.addIssue({ code: 'custom', message: `${what} is a whole number` });
-    if (opts.positive && !(n > 0)) ctx.addIssue({ code: 'custom', message: `${what} must be greater than 0` });
-    if (opts.min !== undefined && n < opts.min) ctx.addIssue({ code: 'custom', message: `${what} must be at least ${opts.min}` });
-    if (opts.max !== undefined && n > opts.max) ctx.addIssue({ code: 'custom', message: `${what} must be at most ${opts.max}` });
-    return n;
-  });
+  z.pipe(
+    z.string(),
+    z.transform((t: string, ctx) => {
+      const n = Number(t.trim());
+      if (t.trim() === '' || !Number.isFinite(n)) {
+        addIssue(ctx, `enter ${what} as a number`);
+        return z.NEVER;
+      }
+      if (opts.int && !Number.isInteger(n)) addIssue(ctx, `${what} is a whole number`);
+      if (opts.positive && !(n > 0)) addIssue(ctx, `${what} must be greater than 0`);
+      if (opts.min !== undefined && n < opts.min) addIssue(ctx, `${what} must be at least ${opts.min}`);
+      if (opts.max !== undefined && n > opts.max) addIssue(ctx, `${what} must be at most ${opts.max}`);
+      return n;
+    }),
+  );
 
 /**
  * react-hook-form over one section of the spec: fields are text, the zod schema reads them (and
@@ -52,8 +66,10 @@ const numberText = (what: string, opts: { int?: boolean; positive?: boolean; min
  * When the document changes from elsewhere (undo, a helper), the fields follow it; the field the
  * builder is typing into is left alone.
  */
-function useSectionForm<T extends FieldValues, O>(schema: z.ZodType<O, T>, text: T, onValid: (out: O) => void): UseFormReturn<T, unknown, O> {
-  const form = useForm<T, unknown, O>({ resolver: zodResolver(schema as never) as never, mode: 'onChange', defaultValues: text as never });
+function useSectionForm<T extends FieldValues, O>(schema: z.ZodMiniType<O, T>, text: T, onValid: (out: O) => void): UseFormReturn<T, unknown, O> {
+  // sync: nothing here is async, and a sync parse keeps the fields' order in issues and output
+  // (zod/mini's transforms resolve late in an async parse, which would move their fields last)
+  const form = useForm<T, unknown, O>({ resolver: zodResolver(schema as never, undefined, { mode: 'sync' }) as never, mode: 'onChange', defaultValues: text as never });
   const own = useRef(false);
   const prev = useRef(text);
   const validRef = useRef(onValid);
@@ -111,20 +127,20 @@ export function PlateSection({ doc, units, commit, issues, readOnly }: { doc: Pl
   const mat = doc.material ?? { name: '6061-T6', densityGPerCm3: 2.7, kind: 'aluminium' as const };
   const schema = z
     .object({
-      partLabel: z.string().max(40, { error: 'at most 40 characters' }),
+      partLabel: z.string().check(z.maxLength(40, { error: 'at most 40 characters' })),
       thickness: lengthText(units, { positive: true }),
       stock: z.enum(['metric', 'inch', 'any']),
       chamfer: lengthText(units, { min: 0 }),
       margin: lengthText(units, { min: 0 }),
       corner: lengthText(units, { min: 0 }),
-      materialName: z.string().trim().min(1, { error: 'name the material' }).max(60),
+      materialName: z.string().check(z.trim(), z.minLength(1, { error: 'name the material' }), z.maxLength(60)),
       materialKind: materialSchema.shape.kind,
       density: numberText('the density', { positive: true, max: 25 }),
     })
-    .superRefine((v, ctx) => {
+    .check(z.superRefine((v, ctx) => {
       if (typeof v.thickness === 'number' && v.thickness > 200) ctx.addIssue({ code: 'custom', path: ['thickness'], message: 'at most 200 mm' });
       if (typeof v.chamfer === 'number' && typeof v.thickness === 'number' && v.chamfer * 2 >= v.thickness) ctx.addIssue({ code: 'custom', path: ['chamfer'], message: 'a chamfer on both edges must leave a straight edge' });
-    });
+    }));
   const text = {
     partLabel: doc.partLabel ?? '',
     thickness: editText(doc.thicknessMm, units),
@@ -200,10 +216,11 @@ export function PlateSection({ doc, units, commit, issues, readOnly }: { doc: Pl
 
 export function CentreBoreSection({ doc, units, commit, issues, readOnly }: { doc: PlateSpecInput; units: DisplayUnits; commit: Commit; issues: ReadonlyMap<string, string>; readOnly: boolean }) {
   const c = doc.centreBore;
-  const schema = z
-    .object({ kind: z.enum(['bore', 'register']), diameter: lengthText(units, { positive: true }), fit: z.string() })
-    .transform((v) => ({ kind: v.kind, diameterMm: v.diameter, ...(v.fit.trim() ? { fit: v.fit.trim() } : {}), ...(c.note ? { note: c.note } : {}) }))
-    .pipe(centreBoreSchema);
+  const fields = z.object({ kind: z.enum(['bore', 'register']), diameter: lengthText(units, { positive: true }), fit: z.string() });
+  const schema = z.pipe(
+    z.pipe(fields, z.transform((v: z.output<typeof fields>) => ({ kind: v.kind, diameterMm: v.diameter, ...(v.fit.trim() ? { fit: v.fit.trim() } : {}), ...(c.note ? { note: c.note } : {}) }))),
+    centreBoreSchema,
+  );
   const text = { kind: c.kind, diameter: editText(c.diameterMm, units), fit: c.fit ?? '' };
   const form = useSectionForm(schema, text, (v) => commit({ ...doc, centreBore: v }, 'bore-form'));
   const e = form.formState.errors as Record<string, { message?: string } | undefined>;

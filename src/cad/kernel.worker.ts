@@ -20,7 +20,8 @@ import type { PlateProfile } from '../domain/profileTypes';
 import { constructForDisplay, measureBoundingBox, PlateCache, profileKey, shapeSignature, type PlateVerification, type BuildStrategy } from './buildPlate';
 import { fatalKernelError, isPlateBuildError } from './errors';
 import { exhaustKernelHeap } from './heapLimit';
-import { cloneMesh, meshTransferables, plateMesh, sizeOfBox, type PlateMesh } from './mesh';
+import { plateMeshFast } from './fastMesh';
+import { cloneMesh, meshTransferables, sizeOfBox, type PlateMesh } from './mesh';
 import type { ShapeSignature } from './signature';
 import { plateStep, type StepMeta } from './step';
 import { KERNEL_VERSION } from './version';
@@ -199,7 +200,7 @@ const api = {
       if (hit && lastMesh && lastMesh.oc === k && lastMesh.key === key) {
         mesh = cloneMesh(lastMesh.mesh);
       } else {
-        const made = plateMesh(k, plate.shape, { sizeMm: sizeOfBox(plate.verification.bbox) });
+        const made = plateMeshFast(k, plate.shape, { sizeMm: sizeOfBox(plate.verification.bbox), box: plate.verification.bbox });
         lastMesh = { oc: k, key, mesh: made };
         mesh = cloneMesh(made);
       }
@@ -277,7 +278,7 @@ const api = {
         const bbox = measureBoundingBox(k, shape);
         const signature = shapeSignature(k, shape, bbox);
         const t1 = performance.now();
-        const made = plateMesh(k, shape, { sizeMm: sizeOfBox(bbox) });
+        const made = plateMeshFast(k, shape, { sizeMm: sizeOfBox(bbox), box: bbox });
         const t2 = performance.now();
         const result: KernelDisplayMesh = { ok: true, mesh: made, strategy, signature, cached: false, buildMs: t1 - t0, meshMs: t2 - t1 };
         lastDisplay = { oc: k, key, result };

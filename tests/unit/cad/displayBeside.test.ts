@@ -7,6 +7,7 @@ import { readFileSync } from 'node:fs';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { buildPlate, constructForDisplay, measureBoundingBox, shapeSignature } from '../../../src/cad/buildPlate';
 import type { OC } from '../../../src/cad/kernel.node.ts';
+import { plateMeshFast } from '../../../src/cad/fastMesh';
 import { plateMesh, sizeOfBox } from '../../../src/cad/mesh';
 import { DISPLAY_VOLUME_TOLERANCE, meshMatchesVolume, meshVolumeMm3, sameSignature, type ShapeSignature } from '../../../src/cad/signature';
 import { layoutIsDisjoint } from '../../../src/domain/layout';
@@ -58,8 +59,9 @@ describe('display construction beside the verified build', () => {
       expect(ds).toEqual(vs);
       expect(sameSignature(ds, vs)).toBe(true);
       // the meshes of the two solids are the same triangles (deterministic construction and mesher)
-      const a = plateMesh(oc, verified.shape, { sizeMm: sizeOfBox(verified.verification.bbox) });
-      const b = plateMesh(oc, display.shape, { sizeMm: sizeOfBox(bbox) });
+      // (the worker's mesher: plate faces from their boundary, see fastMesh.test.ts)
+      const a = plateMeshFast(oc, verified.shape, { sizeMm: sizeOfBox(verified.verification.bbox), box: verified.verification.bbox });
+      const b = plateMeshFast(oc, display.shape, { sizeMm: sizeOfBox(bbox), box: bbox });
       expect(b.indices.length).toBe(a.indices.length);
       expect(Buffer.from(b.positions.buffer).equals(Buffer.from(a.positions.buffer))).toBe(true);
       expect(Buffer.from(b.indices.buffer).equals(Buffer.from(a.indices.buffer))).toBe(true);

@@ -4,21 +4,25 @@
  * thickness (x, y where it was taken, optional); flatness points FP1… take x, y, z on one face;
  * FLAT takes z = a flatness reading (e.g. feeler gauge on a surface plate). All in mm.
  */
-import { z } from 'zod';
+import { z } from 'zod/mini';
 import { FLATNESS_ID, FLATNESS_POINT_ID_RE, THICKNESS_ID_RE, isKnownFeatureId, type InspectionPlan } from './plan';
 
-const mm = z.number({ error: 'must be a number (mm)' }).finite({ error: 'must be a finite number (mm)' }).min(-10_000).max(10_000);
+// zod/mini (functions a bundler can leave out) with zod's English messages where none is given
+if (!z.core.globalConfig.localeError) z.config(z.locales.en());
 
-export const measurementRowSchema = z
-  .object({
-    featureId: z.string({ error: 'is required (a feature id as in the hole table)' }).trim().min(1, 'is required (a feature id as in the hole table)').max(40),
-    x: mm.optional(),
-    y: mm.optional(),
-    z: mm.optional(),
-    diameter: mm.positive({ error: 'must be greater than 0 mm' }).optional(),
-    depth: mm.min(0, { error: 'must be 0 mm or more' }).optional(),
-  })
-  .strict();
+// z.number() takes finite numbers only: Infinity and NaN are "not a number" here too
+const mm = z.number({ error: 'must be a number (mm)' }).check(z.minimum(-10_000), z.maximum(10_000));
+
+export const measurementRowSchema = z.strictObject({
+  featureId: z
+    .string({ error: 'is required (a feature id as in the hole table)' })
+    .check(z.trim(), z.minLength(1, 'is required (a feature id as in the hole table)'), z.maxLength(40)),
+  x: z.optional(mm),
+  y: z.optional(mm),
+  z: z.optional(mm),
+  diameter: z.optional(mm.check(z.positive({ error: 'must be greater than 0 mm' }))),
+  depth: z.optional(mm.check(z.minimum(0, { error: 'must be 0 mm or more' }))),
+});
 
 export type MeasurementRow = z.infer<typeof measurementRowSchema>;
 

@@ -1,6 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { checkPlate, countFindings, layoutIsDisjoint, layoutProblems, type Finding } from '../../../src/domain/checks';
 import { plateProfile } from '../../../src/domain/profile';
+import { MIN_WALL_MM, sampleChain } from '../../../src/domain/layout';
+import { distanceToOutline, pointInOutline } from '../../../src/domain/outline';
 import type { PlateSpec } from '../../../src/domain/spec';
 import { plate, starterInput } from './plateFixture';
 
@@ -293,6 +295,46 @@ describe('pockets (starter recess)', () => {
       st.mountingHoles[0].tangentialMm = tangentialMm;
       s.starter = { ...st, recess: { depthMm, shape: { kind: 'circle', diameterMm } } };
     });
+  it('the wall to the plate edge is the worst of every sample along the pocket edge (the search skips none that could be worse)', () => {
+    const inSquare = (diameterMm: number) =>
+      plate((s) => {
+        const st = starterInput();
+        st.mountingHoles[0].tangentialMm = 20;
+        s.starter = { ...st, recess: { depthMm: 3, shape: { kind: 'circle', diameterMm } } };
+        s.outline = { kind: 'polygon', points: [{ x: -175, y: -175 }, { x: 175, y: -175 }, { x: 175, y: 175 }, { x: -175, y: 175 }] };
+      });
+    let seen = 0;
+    let clear = 0;
+    for (let d = 40; d <= 100; d += 1.7) {
+      const spec = inSquare(d);
+      const profile = plateProfile(spec);
+      const pocket = profile.pockets[0]!;
+      // every sample measured, as a reference
+      let worst = Infinity;
+      let at: { x: number; y: number } | null = null;
+      for (const q of sampleChain(pocket.outline, 0.5)) {
+        const dist = pointInOutline(profile.outline, q) ? distanceToOutline(profile.outline, q) : -distanceToOutline(profile.outline, q);
+        if (dist < worst) {
+          worst = dist;
+          at = q;
+        }
+      }
+      const f = findings(spec, 'outline.breakthrough', pocket.id);
+      if (worst < MIN_WALL_MM + profile.edgeChamferMm) {
+        seen++;
+        expect(f).toHaveLength(1);
+        expect(f[0]!.at).toEqual(at);
+        if (worst >= 0) expect(f[0]!.message).toContain(`${worst.toFixed(2)} mm of wall`);
+        else expect(f[0]!.message).toMatch(/breaks through/);
+      } else {
+        clear++;
+        expect(f).toHaveLength(0);
+      }
+    }
+    expect(seen).toBeGreaterThan(3);
+    expect(clear).toBeGreaterThan(3);
+  });
+
   it('deeper than the plate is an error; a thin floor a warning (common practice)', () => {
     expect(only(recess(20), 'pocket.throughPlate').severity).toBe('error');
     expect(only(recess(19), 'pocket.floor').severity).toBe('warning');

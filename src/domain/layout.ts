@@ -99,12 +99,21 @@ export function layoutProblems(profile: PlateProfile, opts: { readonly minWallMm
   }
   profile.pockets.forEach((p, i) => {
     if (p.depthMm > t - wall + LENGTH_TOLERANCE_MM) problems.push(`pocket ${p.id} leaves less than ${f2(wall)} floor`);
+    const need = wall + profile.edgeChamferMm - LENGTH_TOLERANCE_MM;
+    // the distance to the outline changes by no more than the distance moved: a sample nearer to
+    // the last one measured than that one's margin over `need` is inside by `need` as well
+    let last: Point2 | null = null;
+    let lastD = 0;
     for (const q of sampleChain(p.outline, 0.5)) {
+      if (last && need > 0 && lastD - Math.hypot(q.x - last.x, q.y - last.y) >= need) continue;
       const inside = pointInOutline(profile.outline, q);
-      if (!inside || distanceToOutline(profile.outline, q) < wall + profile.edgeChamferMm - LENGTH_TOLERANCE_MM) {
+      const d = inside ? distanceToOutline(profile.outline, q) : -Infinity;
+      if (!inside || d < need) {
         problems.push(`pocket ${p.id} is not inside the outline by ${f2(wall + profile.edgeChamferMm)}`);
         break;
       }
+      last = q;
+      lastD = d;
     }
     for (const o of profile.pockets.slice(i + 1)) {
       if (sampleChain(o.outline, 0.5).some((q) => pointInOutline(p.outline, q) || distanceToOutline(p.outline, q) < wall)) {

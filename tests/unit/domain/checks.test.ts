@@ -333,6 +333,21 @@ describe('pockets (starter recess)', () => {
     }
     expect(seen).toBeGreaterThan(3);
     expect(clear).toBeGreaterThan(3);
+
+    // the kernel's layout gate says the same as measuring every sample, for walls either side of the limit
+    let refused = 0;
+    for (let d = 40; d <= 100; d += 1.7) {
+      for (const wall of [0.8, 3, 12]) {
+        const profile = plateProfile(inSquare(d));
+        const pocket = profile.pockets[0]!;
+        const need = wall + profile.edgeChamferMm;
+        const every = sampleChain(pocket.outline, 0.5).some((q) => !pointInOutline(profile.outline, q) || distanceToOutline(profile.outline, q) < need - 1e-9);
+        const said = layoutProblems(profile, { minWallMm: wall }).some((m) => m.startsWith(`pocket ${pocket.id} is not inside the outline`));
+        expect(said).toBe(every);
+        if (every) refused++;
+      }
+    }
+    expect(refused).toBeGreaterThan(3);
   });
 
   it('deeper than the plate is an error; a thin floor a warning (common practice)', () => {

@@ -11,7 +11,8 @@
  * A page may run a second worker of this script beside the first (see kernelClient): it starts
  * from the first one's compiled module (no second download or compile) and only makes display
  * meshes of unverified constructions (`displayMesh`), which the page shows only when the first
- * worker's verified solid of the same profile has the same strategy and signature.
+ * worker's verified solid of the same profile has the same strategy and signature and the mesh
+ * encloses its volume.
  */
 import * as Comlink from 'comlink';
 import opencascade, { type OpenCascadeInstance } from 'replicad-opencascadejs';

@@ -5,10 +5,10 @@
  *
  * `buildForDisplay` is what a 3D view calls after every edit. With two or more cores it runs a
  * second worker (started from the first one's compiled module after the first build) that
- * constructs and meshes the same profile while the first builds and verifies it: the mesh is
+ * constructs and meshes the same profile while the first builds and verifies it. The mesh is
  * shown only when the verified solid has the same strategy and signature and the mesh encloses
- * the verified volume, else the verified solid itself is meshed. Nothing unverified is ever shown; the update takes the longer of the
- * two jobs instead of their sum.
+ * the verified volume; otherwise the verified solid itself is meshed. Nothing unverified is ever
+ * shown; the update takes the longer of the two jobs instead of their sum.
  */
 import * as Comlink from 'comlink';
 import type { PlateProfile } from '../domain/profileTypes';

@@ -25,7 +25,7 @@ import { canonicalJson } from '../domain/canonicalJson';
 import { analyticVolumeMm3 } from './analyticVolume';
 import { describeKernelFailure, fatalKernelError, PlateBuildError } from './errors';
 import { offsetOutlineInward } from './offsetOutline';
-import type { ShapeSignature } from './signature';
+import { VOLUME_REL_TOL, type ShapeSignature } from './signature';
 import { analyseLayout, type CircleColumn, type PocketColumn, type VoidColumn } from './plateModel';
 
 export type BuildStrategy = 'direct' | 'oneFace';
@@ -47,6 +47,12 @@ export interface BuiltPlate {
   readonly verification: PlateVerification;
   /** strategies tried before this one and why they were rejected */
   readonly rejected: readonly string[];
+  /**
+   * built with `deferVolume`: valid and with the right faces, its volume not yet measured
+   * (volumeMm3 and volumeRelErr are NaN). Never export or show it alone: `completeVolume` first,
+   * or compare a twin's measured volume (the display path).
+   */
+  readonly volumePending: boolean;
   dispose(): void;
 }
 
@@ -57,11 +63,15 @@ export interface BuildOptions {
   readonly layoutIsDisjoint?: boolean;
   /** skip BRepCheck (benchmarks of the raw build only); verification of volume and faces stays */
   readonly skipValidityCheck?: boolean;
+  /**
+   * leave the volume out of this build's verification (the 3D view's path, where the twin solid
+   * made beside it for the mesh has its volume measured); the result is `volumePending`
+   */
+  readonly deferVolume?: boolean;
   /** receives the duration of each build stage (benchmarks) */
   readonly onStage?: (stage: string, ms: number) => void;
 }
 
-const VOLUME_REL_TOL = 1e-9;
 
 type Deletable = { delete(): void };
 
@@ -573,12 +583,12 @@ export function verifyPlate(
   shape: TopoDS_Shape,
   profile: PlateProfile,
   columns: readonly VoidColumn[],
-  opts: { skipValidityCheck?: boolean } = {},
+  opts: { skipValidityCheck?: boolean; deferVolume?: boolean } = {},
 ): PlateVerification {
   const s = new Scope();
   try {
     const valid = opts.skipValidityCheck ? true : checkSolidValidity(oc, shape);
-    const volumeMm3 = measureVolumeMm3(oc, shape);
+    const volumeMm3 = opts.deferVolume ? Number.NaN : measureVolumeMm3(oc, shape);
     const analytic = analyticVolumeMm3(profile, columns);
     return {
       valid,
@@ -594,9 +604,9 @@ export function verifyPlate(
   }
 }
 
-function verificationProblem(v: PlateVerification): string | null {
+function verificationProblem(v: PlateVerification, volumeDeferred = false): string | null {
   if (!v.valid) return 'the kernel reports the solid as invalid';
-  if (!(v.volumeRelErr < VOLUME_REL_TOL)) {
+  if (!volumeDeferred && !(v.volumeRelErr < VOLUME_REL_TOL)) {
     return `its volume ${v.volumeMm3.toFixed(3)} mm³ differs from the computed ${v.analyticVolumeMm3.toFixed(3)} mm³`;
   }
   if (v.cylindricalFaces !== v.expectedCylindricalFaces) {
@@ -668,7 +678,7 @@ export function buildPlate(oc: OpenCascadeInstance, profile: PlateProfile, opts:
       rejected.push(`${strategy}: verification failed (${describeKernelFailure(oc, e)})`);
       continue;
     }
-    const problem = verificationProblem(verification);
+    const problem = verificationProblem(verification, opts.deferVolume);
     if (problem) {
       shape.delete();
       rejected.push(`${strategy}: ${problem}`);
@@ -680,6 +690,7 @@ export function buildPlate(oc: OpenCascadeInstance, profile: PlateProfile, opts:
       strategy,
       verification,
       rejected,
+      volumePending: opts.deferVolume === true,
       dispose: () => keep.delete(),
     };
   }
@@ -739,7 +750,10 @@ export function shapeSignature(oc: OpenCascadeInstance, shape: TopoDS_Shape, bbo
  * the same profile with the same strategy and the two signatures agree; otherwise it is thrown
  * away. Layout errors throw as in buildPlate. The caller owns the returned shape.
  */
-export function constructForDisplay(oc: OpenCascadeInstance, profile: PlateProfile): { shape: TopoDS_Shape; strategy: BuildStrategy } {
+export function constructForDisplay(
+  oc: OpenCascadeInstance,
+  profile: PlateProfile,
+): { shape: TopoDS_Shape; strategy: BuildStrategy; analyticVolumeMm3: number } {
   const layout = analyseLayout(profile);
   if (layout.errors.length > 0) throw layout.errors[0]!;
   const strategy: BuildStrategy = layout.directSafe && layoutIsDisjoint(profile) ? 'direct' : 'oneFace';
@@ -747,19 +761,46 @@ export function constructForDisplay(oc: OpenCascadeInstance, profile: PlateProfi
   try {
     const kit = new Kit(oc, scope);
     const built = strategy === 'direct' ? buildDirect(kit, profile, layout.columns, () => {}) : buildOneFace(kit, profile, layout.columns);
-    return { shape: scope.release(built), strategy };
+    return { shape: scope.release(built), strategy, analyticVolumeMm3: analyticVolumeMm3(profile, layout.columns) };
   } finally {
     scope.free();
   }
+}
+
+/**
+ * Measures the volume a `deferVolume` build left out. The plate with its full verification, or
+ * null when the volume does not match the drawing (then build it again without deferring: the
+ * next strategy may pass).
+ */
+export function completeVolume(oc: OpenCascadeInstance, plate: BuiltPlate): BuiltPlate | null {
+  if (!plate.volumePending) return plate;
+  const volumeMm3 = measureVolumeMm3(oc, plate.shape);
+  const v = plate.verification;
+  const verification: PlateVerification = { ...v, volumeMm3, volumeRelErr: Math.abs(volumeMm3 - v.analyticVolumeMm3) / v.analyticVolumeMm3 };
+  if (!(verification.volumeRelErr < VOLUME_REL_TOL)) return null;
+  return { ...plate, verification, volumePending: false };
 }
 
 /** Keeps the last built plate per kernel instance, keyed by the profile's canonical JSON. */
 export class PlateCache {
   private entry: { oc: OpenCascadeInstance; key: string; plate: BuiltPlate } | null = null;
 
+  /**
+   * The plate of `profile`, fully verified — unless `opts.deferVolume` asks for a build without
+   * its volume (then a cached plate is returned as it is). A cached `volumePending` plate asked
+   * for without deferring has its volume measured now; if that fails it is built again in full.
+   */
   get(oc: OpenCascadeInstance, profile: PlateProfile, opts?: BuildOptions): { plate: BuiltPlate; hit: boolean } {
     const key = profileKey(profile);
-    if (this.entry && this.entry.oc === oc && this.entry.key === key) return { plate: this.entry.plate, hit: true };
+    if (this.entry && this.entry.oc === oc && this.entry.key === key) {
+      const cached = this.entry.plate;
+      if (!cached.volumePending || opts?.deferVolume) return { plate: cached, hit: true };
+      const full = completeVolume(oc, cached);
+      if (full) {
+        this.entry = { oc, key, plate: full };
+        return { plate: full, hit: true };
+      }
+    }
     const plate = buildPlate(oc, profile, opts);
     this.clear();
     this.entry = { oc, key, plate };

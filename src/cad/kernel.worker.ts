@@ -18,7 +18,7 @@ import * as Comlink from 'comlink';
 import opencascade, { type OpenCascadeInstance } from 'replicad-opencascadejs';
 import wasmUrl from 'replicad-opencascadejs/wasm?url';
 import type { PlateProfile } from '../domain/profileTypes';
-import { constructForDisplay, measureBoundingBox, PlateCache, profileKey, shapeSignature, type PlateVerification, type BuildStrategy } from './buildPlate';
+import { constructForDisplay, measureBoundingBox, measureVolumeMm3, PlateCache, profileKey, shapeSignature, type PlateVerification, type BuildStrategy } from './buildPlate';
 import { fatalKernelError, isPlateBuildError } from './errors';
 import { exhaustKernelHeap } from './heapLimit';
 import { plateMeshFast } from './fastMesh';
@@ -61,6 +61,9 @@ export interface KernelDisplayMesh {
   readonly mesh: PlateMesh;
   readonly strategy: BuildStrategy;
   readonly signature: ShapeSignature;
+  /** this solid's measured volume and its relative difference from the drawing's */
+  readonly volumeMm3: number;
+  readonly volumeRelErr: number;
   readonly cached: boolean;
   readonly buildMs: number;
   readonly meshMs: number;
@@ -237,12 +240,16 @@ const api = {
     return { kernelVersion: KERNEL_VERSION, heapBytes: heapBytes(k) };
   },
 
-  /** Builds (or reuses) the verified solid without meshing it: its verification and signature. */
+  /**
+   * Builds (or reuses) the solid and verifies it without meshing it, all but its volume: the twin
+   * made beside it by `displayMesh` has its volume measured, and the page joins the two by their
+   * signature. The kept solid has its volume measured before anything else uses it (PlateCache).
+   */
   async verify(profile: PlateProfile): Promise<KernelVerifyResult | KernelBuildFailure> {
     const k = await startKernel();
     try {
       const t0 = performance.now();
-      const { plate, hit } = cache.get(k, profile);
+      const { plate, hit } = cache.get(k, profile, { deferVolume: true });
       const signature = shapeSignature(k, plate.shape, plate.verification.bbox);
       return {
         ok: true,
@@ -274,14 +281,16 @@ const api = {
         return Comlink.transfer(r, meshTransferables(r.mesh));
       }
       const t0 = performance.now();
-      const { shape, strategy } = constructForDisplay(k, profile);
+      const { shape, strategy, analyticVolumeMm3 } = constructForDisplay(k, profile);
       try {
         const bbox = measureBoundingBox(k, shape);
         const signature = shapeSignature(k, shape, bbox);
+        const volumeMm3 = measureVolumeMm3(k, shape);
+        const volumeRelErr = Math.abs(volumeMm3 - analyticVolumeMm3) / analyticVolumeMm3;
         const t1 = performance.now();
         const made = plateMeshFast(k, shape, { sizeMm: sizeOfBox(bbox), box: bbox });
         const t2 = performance.now();
-        const result: KernelDisplayMesh = { ok: true, mesh: made, strategy, signature, cached: false, buildMs: t1 - t0, meshMs: t2 - t1 };
+        const result: KernelDisplayMesh = { ok: true, mesh: made, strategy, signature, volumeMm3, volumeRelErr, cached: false, buildMs: t1 - t0, meshMs: t2 - t1 };
         lastDisplay = { oc: k, key, result };
         const sent = { ...result, mesh: cloneMesh(made) };
         return Comlink.transfer(sent, meshTransferables(sent.mesh));

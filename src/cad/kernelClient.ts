@@ -5,14 +5,15 @@
  *
  * `buildForDisplay` is what a 3D view calls after every edit. With two or more cores it runs a
  * second worker (started from the first one's compiled module after the first build) that
- * constructs and meshes the same profile while the first builds and verifies it. The mesh is
- * shown only when the verified solid has the same strategy and signature and the mesh encloses
- * the verified volume; otherwise the verified solid itself is meshed. Nothing unverified is ever
- * shown; the update takes the longer of the two jobs instead of their sum.
+ * constructs, measures the volume of and meshes the same profile while the first builds it and
+ * checks its validity and faces. The mesh is shown only when both have the same strategy and
+ * signature, the twin's volume matches the drawing and the mesh encloses it; otherwise the first
+ * worker's solid is verified in full and meshed itself. Nothing unverified is ever shown; the
+ * update takes the longer of the two jobs instead of their sum.
  */
 import * as Comlink from 'comlink';
 import type { PlateProfile } from '../domain/profileTypes';
-import { meshMatchesVolume, sameSignature } from './signature';
+import { meshMatchesVolume, sameSignature, VOLUME_REL_TOL } from './signature';
 import type { KernelBuildFailure, KernelBuildResult, KernelProgress, KernelWorkerApi } from './kernel.worker';
 
 export type { KernelProgress, KernelBuildResult, KernelBuildFailure } from './kernel.worker';
@@ -137,13 +138,20 @@ export async function buildForDisplay(profile: PlateProfile): Promise<DisplayBui
     m.displayMesh(profile).catch((e: unknown): KernelBuildFailure => ({ ok: false, code: 'kernel', message: String(e), featureIds: [] })),
   ]);
   if (!v.ok) return { result: v, meshedBeside: false, kernelCriticalMs: 0 };
-  if (d.ok && d.strategy === v.strategy && sameSignature(d.signature, v.signature) && meshMatchesVolume(d.mesh, v.verification.volumeMm3)) {
+  if (
+    d.ok &&
+    d.strategy === v.strategy &&
+    sameSignature(d.signature, v.signature) &&
+    d.volumeRelErr < VOLUME_REL_TOL &&
+    meshMatchesVolume(d.mesh, d.volumeMm3)
+  ) {
     return {
       result: {
         ok: true,
         mesh: d.mesh,
         strategy: v.strategy,
-        verification: v.verification,
+        // valid and with its faces (the first worker), its volume measured on the twin (the second)
+        verification: { ...v.verification, volumeMm3: d.volumeMm3, volumeRelErr: d.volumeRelErr },
         cached: v.cached,
         buildMs: v.buildMs,
         meshMs: d.meshMs,

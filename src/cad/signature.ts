@@ -10,6 +10,9 @@ export interface ShapeSignature {
   readonly bbox: { readonly minX: number; readonly minY: number; readonly minZ: number; readonly maxX: number; readonly maxY: number; readonly maxZ: number };
 }
 
+/** a solid's measured volume must match the drawing's analytic volume to this relative error */
+export const VOLUME_REL_TOL = 1e-9;
+
 /** the box may differ by no more than this (mm) */
 export const SIGNATURE_BOX_TOLERANCE_MM = 1e-6;
 

@@ -5,7 +5,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { buildPlate, constructForDisplay, measureBoundingBox, shapeSignature } from '../../../src/cad/buildPlate';
+import { buildPlate, completeVolume, constructForDisplay, measureBoundingBox, measureVolumeMm3, PlateCache, shapeSignature } from '../../../src/cad/buildPlate';
 import type { OC } from '../../../src/cad/kernel.node.ts';
 import { plateMeshFast } from '../../../src/cad/fastMesh';
 import { plateMesh, sizeOfBox } from '../../../src/cad/mesh';
@@ -67,6 +67,9 @@ describe('display construction beside the verified build', () => {
       expect(Buffer.from(b.indices.buffer).equals(Buffer.from(a.indices.buffer))).toBe(true);
       // and the mesh encloses the verified volume, within the chords' loss
       expect(meshMatchesVolume(b, verified.verification.volumeMm3)).toBe(true);
+      // the twin's volume (measured beside a build that defers its own) is the verified one
+      expect(measureVolumeMm3(oc, display.shape)).toBe(verified.verification.volumeMm3);
+      expect(Math.abs(measureVolumeMm3(oc, display.shape) - display.analyticVolumeMm3) / display.analyticVolumeMm3).toBeLessThan(1e-9);
     } finally {
       verified.dispose();
       display.shape.delete();
@@ -107,6 +110,48 @@ describe('display construction beside the verified build', () => {
     const broken = { ...simplePlate, holes: [...simplePlate.holes, { ...simplePlate.holes[0]!, id: 'X9', center: { x: 500, y: 0 } }] };
     expect(() => buildPlate(oc, broken)).toThrow();
     expect(() => constructForDisplay(oc, broken)).toThrow();
+  });
+});
+
+describe('a build that defers its volume', () => {
+  it('is valid with its faces, volume pending; completing it gives the full build\'s volume', () => {
+    const full = buildPlate(oc, referencePlate);
+    const deferred = buildPlate(oc, referencePlate, { deferVolume: true });
+    try {
+      expect(deferred.volumePending).toBe(true);
+      expect(full.volumePending).toBe(false);
+      expect(deferred.verification.valid).toBe(true);
+      expect(deferred.verification.cylindricalFaces).toBe(full.verification.cylindricalFaces);
+      expect(Number.isNaN(deferred.verification.volumeMm3)).toBe(true);
+      const done = completeVolume(oc, deferred)!;
+      expect(done.volumePending).toBe(false);
+      expect(done.verification.volumeMm3).toBe(full.verification.volumeMm3);
+      expect(done.verification.volumeRelErr).toBeLessThan(1e-9);
+      // a plate whose drawing says another volume is refused
+      const wrong = { ...deferred, verification: { ...deferred.verification, analyticVolumeMm3: deferred.verification.analyticVolumeMm3 * 1.001 } };
+      expect(completeVolume(oc, wrong)).toBeNull();
+    } finally {
+      full.dispose();
+      deferred.dispose();
+    }
+  });
+
+  it('the cache hands out a deferred plate for the 3D view and completes it for anything else', () => {
+    const cache = new PlateCache();
+    try {
+      const a = cache.get(oc, simplePlate, { deferVolume: true });
+      expect(a.hit).toBe(false);
+      expect(a.plate.volumePending).toBe(true);
+      expect(cache.get(oc, simplePlate, { deferVolume: true }).plate.volumePending).toBe(true);
+      const b = cache.get(oc, simplePlate);
+      expect(b.hit).toBe(true);
+      expect(b.plate.volumePending).toBe(false);
+      expect(b.plate.verification.volumeRelErr).toBeLessThan(1e-9);
+      // once complete it stays complete, also for the 3D view
+      expect(cache.get(oc, simplePlate, { deferVolume: true }).plate.volumePending).toBe(false);
+    } finally {
+      cache.clear();
+    }
   });
 });
 

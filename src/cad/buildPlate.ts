@@ -72,7 +72,6 @@ export interface BuildOptions {
   readonly onStage?: (stage: string, ms: number) => void;
 }
 
-
 type Deletable = { delete(): void };
 
 /** Collects kernel objects made during a build and frees them together. */
@@ -746,9 +745,10 @@ export function shapeSignature(oc: OpenCascadeInstance, shape: TopoDS_Shape, bbo
 /**
  * The construction buildPlate tries first (direct when the layout allows it, else one-face), for
  * a display mesh made beside the verified build: the same profile, construction and kernel give
- * the same solid. Its result is NOT verified: it may be shown only once buildPlate has verified
- * the same profile with the same strategy and the two signatures agree; otherwise it is thrown
- * away. Layout errors throw as in buildPlate. The caller owns the returned shape.
+ * the same solid. Its result is NOT verified: it may be shown only once buildPlate has checked
+ * the same profile's solid (validity and faces) with the same strategy, the two signatures agree
+ * and this solid's own volume matches `analyticVolumeMm3`; otherwise it is thrown away. Layout
+ * errors throw as in buildPlate. The caller owns the returned shape.
  */
 export function constructForDisplay(
   oc: OpenCascadeInstance,

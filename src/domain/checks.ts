@@ -7,7 +7,7 @@
  * Lengths in mm, plate coordinates (see profileTypes.ts).
  */
 import { DomainError } from './errors';
-import { discVsPocket, featureDisc, MIN_WALL_MM, sampleChain } from './layout';
+import { discVsPocket, featureDisc, leastEdgeDistance, MIN_WALL_MM, sampleChain } from './layout';
 import { closestPointOnOutline, distanceToOutline, pointInOutline, segmentLengthMm } from './outline';
 import {
   flangeFootprint,
@@ -311,25 +311,9 @@ function checkPockets(r: ResolvedPlate, out: Finding[]): void {
       );
     }
     // the pocket inside the plate
-    const samples = sampleChain(p.outline, 0.5);
-    let worst = Infinity;
-    let worstAt: Point2 | null = null;
-    // the signed distance to the outline changes by no more than the distance moved: a sample
-    // closer to the last one measured than that one's margin over the worst so far cannot be
-    // worse, and is not measured (the same worst value and place as measuring every sample)
-    let last: Point2 | null = null;
-    let lastD = 0;
-    for (const q of samples) {
-      if (last && lastD - Math.hypot(q.x - last.x, q.y - last.y) >= worst) continue;
-      const d = pointInOutline(r.profile.outline, q) ? distanceToOutline(r.profile.outline, q) : -distanceToOutline(r.profile.outline, q);
-      last = q;
-      lastD = d;
-      if (d < worst) {
-        worst = d;
-        worstAt = q;
-      }
-    }
-    if (worst < MIN_WALL_MM + r.profile.edgeChamferMm - LENGTH_TOLERANCE_MM && worstAt) {
+    const limit = MIN_WALL_MM + r.profile.edgeChamferMm - LENGTH_TOLERANCE_MM;
+    const { distanceMm: worst, at: worstAt } = leastEdgeDistance(r.profile.outline, sampleChain(p.outline, 0.5), limit);
+    if (worst < limit && worstAt) {
       out.push(
         finding(
           'outline.breakthrough',

@@ -45,6 +45,35 @@ export function sampleChain(chain: readonly OutlineSegment[], stepMm: number): P
   return pts;
 }
 
+/**
+ * The least signed distance of `samples` to `outline` (inside +, outside −) and the first sample
+ * where it is — exact whenever it is below `below`; otherwise some distance ≥ `below` (callers
+ * that only act below a limit pass it). The signed distance changes by no more than the distance
+ * moved, so a sample nearer to the last one measured than that one's margin over the smaller of
+ * the worst so far and `below` is not measured.
+ */
+export function leastEdgeDistance(
+  outline: readonly OutlineSegment[],
+  samples: readonly Point2[],
+  below = Infinity,
+): { readonly distanceMm: number; readonly at: Point2 | null } {
+  let worst = Infinity;
+  let at: Point2 | null = null;
+  let last: Point2 | null = null;
+  let lastD = 0;
+  for (const q of samples) {
+    if (last && lastD - Math.hypot(q.x - last.x, q.y - last.y) >= Math.min(worst, below)) continue;
+    const d = pointInOutline(outline, q) ? distanceToOutline(outline, q) : -distanceToOutline(outline, q);
+    last = q;
+    lastD = d;
+    if (d < worst) {
+      worst = d;
+      at = q;
+    }
+  }
+  return { distanceMm: worst, at };
+}
+
 /** Where a disc lies relative to a pocket: fully inside / outside with the wall, or crossing its edge. */
 export function discVsPocket(
   pocket: ProfilePocket,
@@ -100,20 +129,8 @@ export function layoutProblems(profile: PlateProfile, opts: { readonly minWallMm
   profile.pockets.forEach((p, i) => {
     if (p.depthMm > t - wall + LENGTH_TOLERANCE_MM) problems.push(`pocket ${p.id} leaves less than ${f2(wall)} floor`);
     const need = wall + profile.edgeChamferMm - LENGTH_TOLERANCE_MM;
-    // the distance to the outline changes by no more than the distance moved: a sample nearer to
-    // the last one measured than that one's margin over `need` is inside by `need` as well
-    let last: Point2 | null = null;
-    let lastD = 0;
-    for (const q of sampleChain(p.outline, 0.5)) {
-      if (last && need > 0 && lastD - Math.hypot(q.x - last.x, q.y - last.y) >= need) continue;
-      const inside = pointInOutline(profile.outline, q);
-      const d = inside ? distanceToOutline(profile.outline, q) : -Infinity;
-      if (!inside || d < need) {
-        problems.push(`pocket ${p.id} is not inside the outline by ${f2(wall + profile.edgeChamferMm)}`);
-        break;
-      }
-      last = q;
-      lastD = d;
+    if (leastEdgeDistance(profile.outline, sampleChain(p.outline, 0.5), need).distanceMm < need) {
+      problems.push(`pocket ${p.id} is not inside the outline by ${f2(wall + profile.edgeChamferMm)}`);
     }
     for (const o of profile.pockets.slice(i + 1)) {
       if (sampleChain(o.outline, 0.5).some((q) => pointInOutline(p.outline, q) || distanceToOutline(p.outline, q) < wall)) {

@@ -720,9 +720,11 @@ export function constructPlateSolidUnverified(oc: OpenCascadeInstance, profile: 
   }
 }
 
-function countOf(oc: OpenCascadeInstance, shape: TopoDS_Shape, type: 'face' | 'edge' | 'vertex'): number {
-  const kind = type === 'face' ? oc.TopAbs_ShapeEnum.TopAbs_FACE : type === 'edge' ? oc.TopAbs_ShapeEnum.TopAbs_EDGE : oc.TopAbs_ShapeEnum.TopAbs_VERTEX;
-  const ex = new oc.TopExp_Explorer(shape, kind, oc.TopAbs_ShapeEnum.TopAbs_SHAPE);
+/** How many sub-shapes of a kind the explorer meets in `shape` (a shared one once per use). */
+export function countSubShapes(oc: OpenCascadeInstance, shape: TopoDS_Shape, type: 'face' | 'wire' | 'edge' | 'vertex'): number {
+  const E = oc.TopAbs_ShapeEnum;
+  const kind = type === 'face' ? E.TopAbs_FACE : type === 'wire' ? E.TopAbs_WIRE : type === 'edge' ? E.TopAbs_EDGE : E.TopAbs_VERTEX;
+  const ex = new oc.TopExp_Explorer(shape, kind, E.TopAbs_SHAPE);
   let n = 0;
   try {
     for (; ex.More(); ex.Next()) n++;
@@ -735,9 +737,9 @@ function countOf(oc: OpenCascadeInstance, shape: TopoDS_Shape, type: 'face' | 'e
 /** Faces, edges and vertices (as the explorer meets them) and the optimal bounding box (or `bbox`, measured before). */
 export function shapeSignature(oc: OpenCascadeInstance, shape: TopoDS_Shape, bbox?: PlateVerification['bbox']): ShapeSignature {
   return {
-    faces: countOf(oc, shape, 'face'),
-    edges: countOf(oc, shape, 'edge'),
-    vertices: countOf(oc, shape, 'vertex'),
+    faces: countSubShapes(oc, shape, 'face'),
+    edges: countSubShapes(oc, shape, 'edge'),
+    vertices: countSubShapes(oc, shape, 'vertex'),
     bbox: bbox ?? measureBoundingBox(oc, shape),
   };
 }

@@ -13,6 +13,7 @@
  */
 import earcut, { deviation } from 'earcut';
 import type { OpenCascadeInstance, TopoDS_Face, TopoDS_Shape } from 'replicad-opencascadejs';
+import { countSubShapes } from './buildPlate';
 import { DISPLAY_ANGULAR_TOLERANCE_RAD, displayToleranceMm, plateMesh, plateSizeMm, type PlateMesh } from './mesh';
 
 /** planar faces with at least this many wires are triangulated here (the plate faces) */
@@ -36,14 +37,6 @@ interface PlateFace {
   readonly wires: number;
 }
 
-function count(oc: OpenCascadeInstance, shape: TopoDS_Shape, kind: 'wire' | 'face'): number {
-  const ex = new oc.TopExp_Explorer(shape, kind === 'wire' ? oc.TopAbs_ShapeEnum.TopAbs_WIRE : oc.TopAbs_ShapeEnum.TopAbs_FACE, oc.TopAbs_ShapeEnum.TopAbs_SHAPE);
-  let n = 0;
-  for (; ex.More(); ex.Next()) n++;
-  ex.delete();
-  return n;
-}
-
 /** Splits the solid's faces: horizontal planar many-wire faces at the bottom or top, and the rest. */
 function splitFaces(oc: OpenCascadeInstance, shape: TopoDS_Shape, box: { minZ: number; maxZ: number }): { plate: PlateFace[]; others: TopoDS_Face[] } {
   const plate: PlateFace[] = [];
@@ -61,7 +54,7 @@ function splitFaces(oc: OpenCascadeInstance, shape: TopoDS_Shape, box: { minZ: n
       const loc = pln.Location();
       const horizontal = Math.abs(Math.abs(dir.Z()) - 1) < 1e-12;
       const z = loc.Z();
-      const wires = count(oc, face, 'wire');
+      const wires = countSubShapes(oc, face, 'wire');
       const atBottom = Math.abs(z - box.minZ) < Z_TOLERANCE_MM;
       const atTop = Math.abs(z - box.maxZ) < Z_TOLERANCE_MM;
       if (horizontal && wires >= FAST_FACE_MIN_WIRES && (atBottom || atTop)) {

@@ -14,7 +14,7 @@ import { layoutIsDisjoint } from '../../../src/domain/layout';
 import { plateProfile } from '../../../src/domain/profile';
 import type { PlateProfile } from '../../../src/domain/profileTypes';
 import { plateSpecSchema } from '../../../src/domain/spec';
-import { makeProfile, referencePlate, roundedRectangle, simplePlate } from '../../fixtures/profiles';
+import { referencePlate, simplePlate, twoHolePlate } from '../../fixtures/profiles';
 import { startTestKernel } from './kernelForTests';
 
 let oc: OC;
@@ -25,17 +25,7 @@ beforeAll(async () => {
 const demo = plateProfile(plateSpecSchema.parse(JSON.parse(readFileSync('templates/plates/demo.json', 'utf8'))));
 
 /** two Ø10 holes 0.5 mm apart: buildable, but closer than the minimum wall (not disjoint) */
-const closePair: PlateProfile = makeProfile({
-  thicknessMm: 10,
-  outline: roundedRectangle(100, 80, 8),
-  edgeChamferMm: 0,
-  holes: [
-    { id: 'H1', face: 'engine', operation: 'through', center: { x: -5.25, y: 0 }, diameterMm: 10, depthMm: null, fromSide: 'engine' },
-    { id: 'H2', face: 'engine', operation: 'through', center: { x: 5.25, y: 0 }, diameterMm: 10, depthMm: null, fromSide: 'engine' },
-  ],
-  pockets: [],
-  partLabel: 'PW-TEST close pair',
-});
+const closePair: PlateProfile = twoHolePlate(0.5);
 
 function both(profile: PlateProfile) {
   const verified = buildPlate(oc, profile);

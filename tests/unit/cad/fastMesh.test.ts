@@ -14,7 +14,7 @@ import { meshVolumeMm3 } from '../../../src/cad/signature';
 import { plateProfile } from '../../../src/domain/profile';
 import type { PlateProfile } from '../../../src/domain/profileTypes';
 import { plateSpecSchema } from '../../../src/domain/spec';
-import { makeProfile, referencePlate, roundedRectangle, simplePlate } from '../../fixtures/profiles';
+import { referencePlate, simplePlate, twoHolePlate } from '../../fixtures/profiles';
 import { startTestKernel } from './kernelForTests';
 
 let oc: OC;
@@ -93,17 +93,8 @@ describe('plate faces triangulated from their boundary', () => {
   });
 
   it('a plate with few holes per face is meshed by the kernel alone, exactly as before', () => {
-    const fewHoles: PlateProfile = makeProfile({
-      thicknessMm: 10,
-      outline: roundedRectangle(100, 80, 8),
-      edgeChamferMm: 0,
-      holes: [
-        { id: 'H1', face: 'engine', operation: 'through', center: { x: -20, y: 0 }, diameterMm: 10, depthMm: null, fromSide: 'engine' },
-        { id: 'H2', face: 'engine', operation: 'through', center: { x: 20, y: 0 }, diameterMm: 10, depthMm: null, fromSide: 'engine' },
-      ],
-      pockets: [],
-      partLabel: 'PW-TEST few holes',
-    });
+    // two holes 30 mm apart: three wires per plate face
+    const fewHoles = twoHolePlate(30);
     const { usual, fast, report } = bothMeshes(fewHoles);
     expect(report.facesTriangulatedHere).toBe(0);
     expect(report.fallback).toMatch(/no many-hole plate face/);
